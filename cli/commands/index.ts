@@ -1,0 +1,5 @@
+/** Every command of the command line; a new command is one module added here. */
+import type { Command } from '../io.js';
+import { forcesCommand } from './forces.js';
+
+export const COMMANDS: readonly Command[] = [forcesCommand];

@@ -1,0 +1,70 @@
+/** Shared command-line plumbing: reading a scenario, reporting issues, exit codes. */
+import { readFileSync } from 'node:fs';
+import type { Issue } from '../src/scenario.js';
+
+export const EXIT = { ok: 0, usage: 1, invalid: 2, limit: 3 } as const;
+
+export interface Io {
+  out: (text: string) => void;
+  err: (text: string) => void;
+  stdin: () => string;
+}
+
+export const processIo: Io = {
+  out: (t) => process.stdout.write(t),
+  err: (t) => process.stderr.write(t),
+  stdin: () => readFileSync(0, 'utf8'),
+};
+
+export class UsageError extends Error {}
+
+/** Read and JSON-parse FILE (or standard input for "-"). */
+export function readDocument(file: string | undefined, io: Io): { doc: unknown } | { issues: Issue[] } {
+  if (!file) throw new UsageError('a scenario FILE (or - for standard input) is required');
+  let text: string;
+  try {
+    text = file === '-' ? io.stdin() : readFileSync(file, 'utf8');
+  } catch (e) {
+    return { issues: [{ path: '(file)', message: `cannot read ${file}: ${(e as NodeJS.ErrnoException).code ?? String(e)}` }] };
+  }
+  try {
+    return { doc: JSON.parse(text) };
+  } catch (e) {
+    return { issues: [{ path: '(document)', message: `is not valid JSON: ${(e as Error).message}` }] };
+  }
+}
+
+/** Print issues the way the service reports them, and choose the exit code. */
+export function reportIssues(issues: Issue[], io: Io): number {
+  const limit = issues.some((i) => i.limit);
+  io.err(`${limit ? 'over a limit' : 'invalid scenario'}:\n${issues.map((i) => `  ${i.path}: ${i.message}`).join('\n')}\n`);
+  return limit ? EXIT.limit : EXIT.invalid;
+}
+
+/** Minimal flag parsing: --name value, --flag, positional arguments. */
+export function parseArgs(argv: readonly string[], flags: Record<string, 'bool' | 'string'>): { positional: string[]; opts: Record<string, string | boolean> } {
+  const positional: string[] = [];
+  const opts: Record<string, string | boolean> = {};
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i] as string;
+    if (a.startsWith('--')) {
+      const [name, inline] = a.slice(2).split('=', 2) as [string, string | undefined];
+      const kind = flags[name];
+      if (!kind) throw new UsageError(`unknown option --${name}`);
+      if (kind === 'bool') opts[name] = true;
+      else {
+        const v = inline ?? argv[++i];
+        if (v === undefined) throw new UsageError(`--${name} needs a value`);
+        opts[name] = v;
+      }
+    } else positional.push(a);
+  }
+  return { positional, opts };
+}
+
+export interface Command {
+  name: string;
+  summary: string;
+  usage: string;
+  run: (argv: readonly string[], io: Io) => number;
+}

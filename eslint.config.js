@@ -1,0 +1,19 @@
+import globals from 'globals';
+import js from '@eslint/js';
+import tseslint from 'typescript-eslint';
+
+export default tseslint.config(
+  { ignores: ['dist/**', 'node_modules/**', 'web/dist/**', 'test-artifacts/**'] },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  {
+    rules: {
+      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+      'no-constant-condition': ['error', { checkLoops: false }],
+    },
+  },
+  {
+    files: ['**/*.mjs', '**/*.js'],
+    languageOptions: { globals: { ...globals.node } },
+  },
+);
