@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { type DimensionName, DIMENSIONS, toSI } from './units.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { dot, norm, type Vec3 } from './vec.js';
+import { DecimateSchema, ManeuverSchema } from './turn/schema.js';
 
 export interface Issue {
   path: string;
@@ -248,7 +249,7 @@ const body = z.strictObject({
   acceleration: vector('acceleration').default([0, 0, 0]),
   gravity: z.union([z.boolean(), quantity('acceleration', 'nonNegative')], { error: (iss) => `${show(iss.input)} is not a gravity setting; expected true, false or an acceleration such as '9.80665 m/s^2'` }).default(false),
   attitude: z.strictObject({ roll: quantity('angle').default(0), pitch: quantity('angle').default(0), yaw: quantity('angle').default(0) }).prefault({}),
-  maneuver: z.unknown().optional(),
+  maneuver: ManeuverSchema.optional(),
 });
 
 const sensor = z.strictObject({
@@ -269,6 +270,7 @@ const sampling = z.strictObject({
 const output = z.strictObject({
   series: z.boolean().default(true),
   path: z.enum(['auto', 'closed-form', 'sampled'], { error: (iss) => `${show(iss.input)} is not a path; expected "auto", "closed-form" or "sampled"` }).default('auto'),
+  decimate: DecimateSchema.optional(),
 });
 
 export const ScenarioSchema = z
