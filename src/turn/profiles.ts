@@ -92,7 +92,7 @@ function interval(t: Float64Array, x: number, from: number): number {
   let i = from;
   const last = t.length - 2;
   if (i > last || x < (t[i] as number)) i = 0;
-  while (i < last && x >= (t[i + 1] as number)) i++;
+  while (i < last && x >= (t[i + 1] as number)) i++; // x = t_{n−1} stays in the last interval
   return i;
 }
 
@@ -105,11 +105,11 @@ function interval(t: Float64Array, x: number, from: number): number {
 function splineAt(s: Spline, x: number, cursor: number, out: Float64Array): number {
   const { t, y, m } = s;
   const n = t.length;
-  if (x <= (t[0] as number)) {
+  if (x < (t[0] as number)) {
     out[0] = (out[0] as number) + (y[0] as number);
     return 0;
   }
-  if (x >= (t[n - 1] as number)) {
+  if (x > (t[n - 1] as number)) {
     out[0] = (out[0] as number) + (y[n - 1] as number);
     return n - 2;
   }

@@ -1,0 +1,172 @@
+/**
+ * A maneuver at the full sample rate (design §7): body rates and angular accelerations from the
+ * profiles, attitude and gravity in body axes, and the loads of the organ and its mirror over
+ * every sample, with the angular-acceleration component alive.
+ *
+ * The stroke is periodic, so one beat of kinematics serves every beat; the body motion varies
+ * per sample (MotionSeries with stride 1) and the loads kernel fills the run beat by beat.
+ * Sample j sits at t_j = j·dt, dt = 1/(n f), the waveform's and the maneuver's common origin.
+ *
+ * Mirror organ (design §2): the specified geometry under Ω* = −PΩ, Ω̇* = −PΩ̇, a* = Pa, g* = Pg
+ * (P: y → −y), with its body-axis y loads reflected afterwards.
+ *
+ * Memory: every series lives in a TurnWorkspace, allocated once and grown only when a longer run
+ * asks for it; a run allocates nothing per beat or per sample.
+ */
+import { N_AXES, N_COMPONENTS } from '../components.js';
+import { allocKinematics, kinematics, loads, type Kinematics, type LoadSeries, type MotionSeries } from '../loads.js';
+import type { Geometry } from '../model.js';
+import type { Vec3 } from '../vec.js';
+import { beatTable, sampleBeat, type WaveSamples } from '../waveform.js';
+import { gravitySeries, integrateAttitude, type AttitudeReport, type Quaternion, type QuaternionSeries } from './attitude.js';
+import { sampleAxis, type RateProfile } from './profiles.js';
+
+export interface TurnPlan {
+  frequency: number;
+  pointsPerBeat: number;
+  beats: number;
+  /** beats × pointsPerBeat. */
+  samples: number;
+  /** Sample interval 1/(n f) (s). */
+  dt: number;
+}
+
+/** The run covers whole beats: ⌈duration · f⌉ of them (a tolerance of 1e-9 beat absorbs rounding). */
+export function turnPlan(frequency: number, pointsPerBeat: number, duration: number): TurnPlan {
+  const beats = Math.max(1, Math.ceil(duration * frequency - 1e-9));
+  return { frequency, pointsPerBeat, beats, samples: beats * pointsPerBeat, dt: 1 / (pointsPerBeat * frequency) };
+}
+
+export interface TurnWorkspace {
+  capacity: number;
+  pointsPerBeat: number;
+  motion: MotionSeries;
+  mirrorMotion: MotionSeries;
+  /** Ω on the half-step grid (x, y, z), and a scratch for Ω̇ there. */
+  half: [Float64Array, Float64Array, Float64Array];
+  halfScratch: Float64Array;
+  q: QuaternionSeries;
+  loadData: [Float64Array, Float64Array];
+  kin: Kinematics;
+  stroke: WaveSamples;
+  deviation: WaveSamples;
+}
+
+const f64 = (n: number) => new Float64Array(n);
+const wave = (n: number): WaveSamples => ({ s: f64(n), v: f64(n), a: f64(n) });
+
+/** Allocate (once) the buffers of a run of `samples` samples at n points per beat. */
+export function allocTurn(samples: number, pointsPerBeat: number): TurnWorkspace {
+  const N = samples;
+  const motion: MotionSeries = { stride: 1, wx: f64(N), wy: f64(N), wz: f64(N), dwx: f64(N), dwy: f64(N), dwz: f64(N), ax: f64(N), ay: f64(N), az: f64(N), gx: f64(N), gy: f64(N), gz: f64(N) };
+  // The mirror shares every array that P leaves unchanged (wy, dwy, ax, az, gx, gz).
+  const mirrorMotion: MotionSeries = { ...motion, wx: f64(N), wz: f64(N), dwx: f64(N), dwz: f64(N), ay: f64(N), gy: f64(N) };
+  const n = pointsPerBeat;
+  return {
+    capacity: N,
+    pointsPerBeat: n,
+    motion,
+    mirrorMotion,
+    half: [f64(2 * N), f64(2 * N), f64(2 * N)],
+    halfScratch: f64(2 * N),
+    q: { w: f64(N), x: f64(N), y: f64(N), z: f64(N) },
+    loadData: [f64(N_COMPONENTS * N_AXES * N), f64(N_COMPONENTS * N_AXES * N)],
+    kin: allocKinematics(n),
+    stroke: wave(n),
+    deviation: wave(n),
+  };
+}
+
+/** True when `ws` can hold the plan's run. */
+export const fits = (ws: TurnWorkspace, plan: TurnPlan): boolean => ws.capacity >= plan.samples && ws.pointsPerBeat === plan.pointsPerBeat;
+
+export interface TurnInput {
+  geometry: Geometry;
+  profile: RateProfile;
+  /** Initial attitude (body → north–east–down). */
+  attitude: Quaternion;
+  /** Gravity magnitude (m/s²); 0 turns it off. */
+  gravity: number;
+  /** Acceleration of the reference point (m/s², body axes), held through the run. */
+  acceleration: Vec3;
+  mirror: boolean;
+}
+
+export interface TurnRun {
+  plan: TurnPlan;
+  motion: MotionSeries;
+  mirrorMotion?: MotionSeries;
+  q: QuaternionSeries;
+  /** Loads of the specified organ, then of its mirror (views into the workspace). */
+  organs: LoadSeries[];
+  /** One beat of stroke (and deviation) samples. */
+  stroke: WaveSamples;
+  deviation?: WaveSamples;
+  attitude: AttitudeReport;
+}
+
+/** Body motion at every sample: Ω, Ω̇ from the profiles, attitude, gravity, translation. */
+export function bodyMotion(input: TurnInput, plan: TurnPlan, ws: TurnWorkspace): AttitudeReport {
+  const N = plan.samples;
+  const m = ws.motion;
+  const w = [m.wx, m.wy, m.wz] as const;
+  const dw = [m.dwx, m.dwy, m.dwz] as const;
+  for (let a = 0; a < 3; a++) {
+    const half = ws.half[a] as Float64Array;
+    const terms = input.profile.axes[a] ?? [];
+    sampleAxis(terms, plan.dt / 2, 2 * N - 1, half, ws.halfScratch);
+    const wa = w[a] as Float64Array, dwa = dw[a] as Float64Array;
+    for (let j = 0; j < N; j++) {
+      wa[j] = half[2 * j] as number;
+      dwa[j] = ws.halfScratch[2 * j] as number;
+    }
+  }
+  const report = integrateAttitude(input.attitude, ws.half, plan.dt, N, ws.q);
+  gravitySeries(ws.q, input.gravity, N, m.gx, m.gy, m.gz);
+  m.ax.fill(input.acceleration[0], 0, N);
+  m.ay.fill(input.acceleration[1], 0, N);
+  m.az.fill(input.acceleration[2], 0, N);
+  if (input.mirror) {
+    const r = ws.mirrorMotion;
+    for (let j = 0; j < N; j++) {
+      r.wx[j] = -(m.wx[j] as number);
+      r.wz[j] = -(m.wz[j] as number);
+      r.dwx[j] = -(m.dwx[j] as number);
+      r.dwz[j] = -(m.dwz[j] as number);
+      r.ay[j] = -(m.ay[j] as number);
+      r.gy[j] = -(m.gy[j] as number);
+    }
+  }
+  return report;
+}
+
+/** Run a maneuver into `ws` (which must fit the plan). Returned series are views into `ws`. */
+export function runTurn(input: TurnInput, plan: TurnPlan, ws: TurnWorkspace): TurnRun {
+  if (!fits(ws, plan)) throw new RangeError(`workspace of ${ws.capacity} samples at ${ws.pointsPerBeat} points per beat cannot hold ${plan.samples} at ${plan.pointsPerBeat}`);
+  const g = input.geometry;
+  const n = plan.pointsPerBeat;
+  const N = plan.samples;
+  const attitude = bodyMotion(input, plan, ws);
+  const table = beatTable(n);
+  const stroke = sampleBeat(g.stroke, g.frequency, n, table, ws.stroke);
+  const deviation = g.deviation ? sampleBeat(g.deviation, g.frequency, n, table, ws.deviation) : undefined;
+  const kin = kinematics(g, stroke, deviation, ws.kin);
+  const size = N_COMPONENTS * N_AXES * N;
+  const organs: LoadSeries[] = [{ n: N, data: ws.loadData[0].subarray(0, size) }];
+  if (input.mirror) organs.push({ n: N, data: ws.loadData[1].subarray(0, size) });
+  organs.forEach((out, o) => {
+    const motion = o === 0 ? ws.motion : ws.mirrorMotion;
+    for (let b = 0; b < plan.beats; b++) loads(kin, motion, g.mass, out, b * n, b * n);
+  });
+  if (input.mirror) reflectY(organs[1] as LoadSeries);
+  return { plan, motion: ws.motion, ...(input.mirror ? { mirrorMotion: ws.mirrorMotion } : {}), q: ws.q, organs, stroke, ...(deviation ? { deviation } : {}), attitude };
+}
+
+/** Apply P (y → −y) to the body-axis y series of every component. */
+function reflectY(s: LoadSeries): void {
+  const { n, data } = s;
+  for (let c = 0; c < N_COMPONENTS; c++) {
+    const at = (c * N_AXES + 1) * n;
+    for (let j = 0; j < n; j++) data[at + j] = -(data[at + j] as number);
+  }
+}
