@@ -15,6 +15,8 @@ export const LIMITS = {
   fitHarmonics: 64,
   /** Terms in a `harmonics` waveform. */
   waveformTerms: 256,
+  /** Numbers in the series of one turn answer (series × kept samples); decimate to fit. */
+  seriesValues: 2_097_152,
 } as const;
 
 export type LimitName = keyof typeof LIMITS;
