@@ -1,0 +1,229 @@
+/**
+ * The pair read together (design §6): the sensitivity matrix H of the lock-in channels
+ * (rows: organ × axis × harmonic; columns: roll, pitch, yaw rate), the channel noise covariance
+ * R = diag(σ²) (independent channels, see docs/sensing.md), the least-squares rate estimate
+ *
+ *   Ω̂ = (Hᵀ R⁻¹ H)⁻¹ Hᵀ R⁻¹ y,   Cov(Ω̂) = (Hᵀ R⁻¹ H)⁻¹,
+ *
+ * its condition number (of the whitened matrix R^{-1/2} H, by SVD) and the rate combinations the
+ * channels cannot tell apart (near-null right singular vectors). The whitened matrix is first
+ * reduced to a 3 × 3 triangle by Householder QR, whose SVD (ml-matrix) has the same singular values.
+ */
+import { Matrix, SVD } from 'ml-matrix';
+
+export const RATE_AXES = ['roll', 'pitch', 'yaw'] as const;
+export type RateAxis = (typeof RATE_AXES)[number];
+
+export interface PairRow {
+  /** In-phase output per unit rate (channel unit per rad/s) for roll, pitch, yaw. */
+  sensitivity: readonly [number, number, number];
+  /** Spread of the in-phase output over the integration (channel unit); 0 when no noise model. */
+  sigma: number;
+}
+
+export interface PairOptions {
+  /** SNR at which a rate counts as detected (default 1). */
+  threshold?: number;
+  /** Singular values below this fraction of the largest name a confusion (default 1e-6). */
+  confusionTolerance?: number;
+  /** Singular values below this fraction of the largest are treated as zero (default 1e-12). */
+  nullTolerance?: number;
+}
+
+export interface Confusion {
+  /** `unobserved`: no channel responds to the axis; `confused`: only a combination is seen. */
+  kind: 'unobserved' | 'confused';
+  axes: RateAxis[];
+  /** Unit rate direction (roll, pitch, yaw) that gives (almost) no output on any channel. */
+  direction: Record<RateAxis, number>;
+  /** Singular value along the direction over the largest (0 for an exact null). */
+  ratio: number;
+  message: string;
+}
+
+export interface PairAnalysis {
+  channels: number;
+  /** True when every row carries a noise spread (σ > 0); otherwise H is used unweighted. */
+  weighted: boolean;
+  /** Singular values of R^{-1/2} H (of H when unweighted), largest first. */
+  singularValues: [number, number, number];
+  /** Largest over smallest singular value; null when the smallest is zero (singular). */
+  conditionNumber: number | null;
+  /** Cov(Ω̂) in (rad/s)², rows and columns roll, pitch, yaw; null where infinite or unweighted. */
+  covariance: (number | null)[][];
+  /** threshold · √Cov_ii (rad/s); null where the axis is not observable or without noise. */
+  minimumRate: Record<RateAxis, number | null>;
+  observable: Record<RateAxis, boolean>;
+  confusions: Confusion[];
+  /** Estimator gain G (3 × channels, row-major): Ω̂ = G y (minimum norm along null directions). */
+  gain: Float64Array;
+}
+
+/** Householder QR of the n × 3 matrix A (row-major, overwritten): R (3 × 3) and reflectors. */
+function householder(A: Float64Array, n: number, R: Float64Array, V: Float64Array, beta: Float64Array): void {
+  R.fill(0);
+  for (let j = 0; j < 3; j++) {
+    beta[j] = 0;
+    if (j >= n) continue;
+    let norm2 = 0;
+    for (let i = j; i < n; i++) norm2 += (A[i * 3 + j] as number) ** 2;
+    const norm = Math.sqrt(norm2);
+    const a0 = A[j * 3 + j] as number;
+    const alpha = a0 >= 0 ? -norm : norm;
+    for (let i = 0; i < n; i++) V[i * 3 + j] = i < j ? 0 : (A[i * 3 + j] as number);
+    V[j * 3 + j] = a0 - alpha;
+    let vv = 0;
+    for (let i = j; i < n; i++) vv += (V[i * 3 + j] as number) ** 2;
+    if (vv > 0) {
+      beta[j] = 2 / vv;
+      for (let c = j; c < 3; c++) {
+        let d = 0;
+        for (let i = j; i < n; i++) d += (V[i * 3 + j] as number) * (A[i * 3 + c] as number);
+        d *= beta[j] as number;
+        for (let i = j; i < n; i++) A[i * 3 + c] = (A[i * 3 + c] as number) - d * (V[i * 3 + j] as number);
+      }
+    }
+  }
+  for (let i = 0; i < Math.min(3, n); i++) for (let c = i; c < 3; c++) R[i * 3 + c] = A[i * 3 + c] as number;
+}
+
+/** Apply Qᵀ (the product of the reflectors) to a vector y of length n, in place. */
+function applyQt(V: Float64Array, beta: Float64Array, n: number, y: Float64Array): void {
+  for (let j = 0; j < 3; j++) {
+    const b = beta[j] as number;
+    if (b === 0) continue;
+    let d = 0;
+    for (let i = j; i < n; i++) d += (V[i * 3 + j] as number) * (y[i] as number);
+    d *= b;
+    for (let i = j; i < n; i++) y[i] = (y[i] as number) - d * (V[i * 3 + j] as number);
+  }
+}
+
+const dir = <T>(v: readonly T[]): Record<RateAxis, T> => ({ roll: v[0] as T, pitch: v[1] as T, yaw: v[2] as T });
+
+/** Sensitivity, covariance, condition number, confusions and estimator gain of a set of channels. */
+export function analysePair(rows: readonly PairRow[], options: PairOptions = {}): PairAnalysis {
+  const { threshold = 1, confusionTolerance = 1e-6, nullTolerance = 1e-12 } = options;
+  const n = rows.length;
+  const weighted = n > 0 && rows.every((r) => r.sigma > 0);
+  const A = new Float64Array(n * 3);
+  const w = new Float64Array(n);
+  rows.forEach((r, i) => {
+    w[i] = weighted ? 1 / r.sigma : 1;
+    for (let c = 0; c < 3; c++) A[i * 3 + c] = (r.sensitivity[c] as number) * (w[i] as number);
+  });
+  const R = new Float64Array(9), V = new Float64Array(Math.max(n, 3) * 3), beta = new Float64Array(3);
+  householder(A, n, R, V, beta);
+  const svd = new SVD(new Matrix([[R[0], R[1], R[2]], [R[3], R[4], R[5]], [R[6], R[7], R[8]]] as number[][]), { autoTranspose: false });
+  const s = svd.diagonal.map((x) => Math.abs(x));
+  const U = svd.leftSingularVectors, Vr = svd.rightSingularVectors;
+  const order = [0, 1, 2].sort((a, b) => (s[b] as number) - (s[a] as number));
+  const sv = order.map((i) => s[i] as number) as [number, number, number];
+  const smax = sv[0];
+  const conditionNumber = smax > 0 && sv[2] > 0 ? smax / sv[2] : null;
+  const isNull = (x: number) => !(smax > 0) || x <= nullTolerance * smax;
+  const col = (M: Matrix, j: number): number[] => [M.get(0, j), M.get(1, j), M.get(2, j)];
+
+  // Null projector P0 (rate space) and pseudo-inverse pieces.
+  const P0 = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+  const cov = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+  const M = new Float64Array(9); // V S⁻¹ U_rᵀ
+  for (const j of order) {
+    const sj = s[j] as number;
+    const v = col(Vr, j), u = col(U, j);
+    if (isNull(sj)) {
+      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) P0[a * 3 + b] = (P0[a * 3 + b] as number) + (v[a] as number) * (v[b] as number);
+      continue;
+    }
+    for (let a = 0; a < 3; a++) {
+      for (let b = 0; b < 3; b++) {
+        cov[a * 3 + b] = (cov[a * 3 + b] as number) + ((v[a] as number) * (v[b] as number)) / (sj * sj);
+        M[a * 3 + b] = (M[a * 3 + b] as number) + ((v[a] as number) * (u[b] as number)) / sj;
+      }
+    }
+  }
+  const observable = dir([0, 1, 2].map((i) => (P0[i * 4] as number) < 1e-9));
+  const covariance = [0, 1, 2].map((a) => [0, 1, 2].map((b) => (weighted && observable[RATE_AXES[a] as RateAxis] && observable[RATE_AXES[b] as RateAxis] ? (cov[a * 3 + b] as number) : null)));
+  const minimumRate = dir([0, 1, 2].map((i) => {
+    const c = covariance[i]?.[i];
+    return c === null || c === undefined ? null : threshold * Math.sqrt(c);
+  }));
+
+  // Gain G = M Qᵀ W: row r of G at channel i is Σ_b M[r,b] (Qᵀ e_i)_b w_i.
+  const gain = new Float64Array(3 * n);
+  const e = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    e.fill(0);
+    e[i] = 1;
+    applyQt(V, beta, n, e);
+    for (let r = 0; r < 3; r++) {
+      let g = 0;
+      for (let b = 0; b < Math.min(3, n); b++) g += (M[r * 3 + b] as number) * (e[b] as number);
+      gain[r * n + i] = g * (w[i] as number);
+    }
+  }
+  const confusions = confusionsOf(order.map((j) => ({ s: s[j] as number, v: col(Vr, j) })), smax, confusionTolerance);
+  return { channels: n, weighted, singularValues: sv, conditionNumber, covariance, minimumRate, observable, confusions, gain };
+}
+
+const fmt = (x: number): string => (Math.abs(x) < 5e-3 ? '0' : x.toFixed(2));
+
+/** Name the near-null rate directions: single axes that nothing sees, then mixed combinations. */
+function confusionsOf(sing: { s: number; v: number[] }[], smax: number, tol: number): Confusion[] {
+  const near = sing.filter((x) => !(smax > 0) || x.s <= tol * smax);
+  if (near.length === 0) return [];
+  const ratioOf = (x: { s: number }) => (smax > 0 ? x.s / smax : 0);
+  const weight = [0, 1, 2].map((i) => near.reduce((acc, x) => acc + (x.v[i] as number) ** 2, 0));
+  const unseen = [0, 1, 2].filter((i) => (weight[i] as number) > 1 - 1e-6);
+  const out: Confusion[] = unseen.map((i) => {
+    const axis = RATE_AXES[i] as RateAxis;
+    const d = [0, 0, 0];
+    d[i] = 1;
+    const ratio = Math.max(...near.map((x) => ((x.v[i] as number) ** 2 > 0.5 ? ratioOf(x) : 0)));
+    return { kind: 'unobserved', axes: [axis], direction: dir(d), ratio, message: `the channels do not respond to ${axis}: no read line carries it` };
+  });
+  // Directions of the near-null space orthogonal to the unseen axes.
+  const rest = near.map((x) => {
+    const v = x.v.map((c, i) => (unseen.includes(i) ? 0 : c));
+    return { v, s: x.s, len: Math.hypot(...v) };
+  });
+  const basis: { v: number[]; s: number }[] = [];
+  for (const r of rest.sort((a, b) => b.len - a.len)) {
+    const v = [...r.v];
+    for (const b of basis) {
+      const d = v.reduce((acc, c, i) => acc + c * (b.v[i] as number), 0);
+      for (let i = 0; i < 3; i++) v[i] = (v[i] as number) - d * (b.v[i] as number);
+    }
+    const len = Math.hypot(...v);
+    if (len > 1e-6) basis.push({ v: v.map((c) => c / len), s: r.s });
+  }
+  for (const b of basis) {
+    const big = b.v.reduce((m, c, i) => (Math.abs(c) > Math.abs(b.v[m] as number) ? i : m), 0);
+    const v = (b.v[big] as number) < 0 ? b.v.map((c) => -c) : b.v;
+    const axes = [0, 1, 2].filter((i) => Math.abs(v[i] as number) >= 5e-3).map((i) => RATE_AXES[i] as RateAxis);
+    const combo = axes.map((a, k) => {
+      const c = v[RATE_AXES.indexOf(a)] as number;
+      return `${k === 0 ? (c < 0 ? '−' : '') : c < 0 ? ' − ' : ' + '}${fmt(Math.abs(c))} ${a}`;
+    }).join('');
+    const ratio = ratioOf(b);
+    out.push({
+      kind: 'confused',
+      axes,
+      direction: dir(v),
+      ratio,
+      message: `the channels cannot tell ${axes.join(', ').replace(/, ([^,]*)$/, ' and $1')} apart: a rate along ${combo} gives ${ratio === 0 ? 'no' : `${ratio.toPrecision(2)} of the best`} in-phase output`,
+    });
+  }
+  return out;
+}
+
+/** Ω̂ = G y for one set of channel outputs y (rows in the order of the analysis). */
+export function estimateRates(analysis: Pick<PairAnalysis, 'gain' | 'channels'>, y: ArrayLike<number>, out: Float64Array = new Float64Array(3)): Float64Array {
+  const { gain, channels: n } = analysis;
+  for (let r = 0; r < 3; r++) {
+    let acc = 0;
+    for (let i = 0; i < n; i++) acc += (gain[r * n + i] as number) * (y[i] as number);
+    out[r] = acc;
+  }
+  return out;
+}
