@@ -78,14 +78,30 @@ function parseString(text: string, accepted: readonly DimensionName[]): Parsed {
  * one of `accepted`. On failure, `message` names the value and what was expected.
  */
 export function toSI(value: unknown, accepted: readonly DimensionName[]): Parsed {
+  if (typeof value === 'number' && Number.isFinite(value)) return { ok: true, value, dimension: accepted[0] ?? 'dimensionless' };
+  const key = typeof value === 'string' ? `${accepted.join(',')}|${value}` : '';
+  const hit = stringCache.get(key);
+  if (hit !== undefined) return hit;
   const first = DIMENSIONS[accepted[0] ?? 'dimensionless'];
   const expected = accepted.map((n) => DIMENSIONS[n].name).join(' or ');
   const hint = `expected ${expected}: a number in ${first.si} or a string such as '${first.example}'`;
-  if (typeof value === 'number') {
-    if (!Number.isFinite(value)) return { ok: false, message: `${show(value)} is not a finite number; ${hint}` };
-    return { ok: true, value, dimension: accepted[0] ?? 'dimensionless' };
-  }
+  if (typeof value === 'number') return { ok: false, message: `${show(value)} is not a finite number; ${hint}` };
   if (typeof value !== 'string') return { ok: false, message: `${show(JSON.stringify(value) ?? value)} is not a quantity; ${hint}` };
+  const out = stringToSI(value, accepted, expected, hint);
+  if (stringCache.size >= STRING_CACHE_SIZE) stringCache.delete(stringCache.keys().next().value as string);
+  stringCache.set(key, out);
+  return out;
+}
+
+/**
+ * mathjs takes about 5–15 µs per unit string and a service sees the same few strings again and
+ * again, so answers for strings (values or messages; they depend on the string and the accepted
+ * dimensions alone) are kept in a bounded map, oldest dropped first.
+ */
+const STRING_CACHE_SIZE = 4096;
+const stringCache = new Map<string, Parsed>();
+
+function stringToSI(value: string, accepted: readonly DimensionName[], expected: string, hint: string): Parsed {
   const r = parseString(value, accepted);
   if (r.ok) {
     if (!Number.isFinite(r.value)) return { ok: false, message: `${show(value)} is not finite; ${hint}` };
