@@ -5,14 +5,17 @@
  * lock-in read-out with the rates the pair would estimate against the true ones, their lag and
  * error, the peak strain, and decimated series.
  */
-import { axesOf, COMPONENTS, N_AXES, type Axis, type Component } from '../components.js';
-import { warningsFor } from '../forces.js';
+import { axesOf, COMPONENTS, N_AXES, TOTAL, type Axis, type Component } from '../components.js';
+import { choosePath, warningsFor } from '../forces.js';
 import { LIMITS } from '../limits.js';
 import { compile, STANDARD_GRAVITY, type Model, type Side } from '../model.js';
 import { parseScenario, type Issue, type Scenario } from '../scenario.js';
+import { analysePair, demodulate, estimateRates, outputNoise, RATE_AXES, type Demodulated, type PairAnalysis } from '../sensing/index.js';
 import { VERSION } from '../version.js';
 import { fromEuler, toEuler, type QuaternionSeries } from './attitude.js';
+import { channelsOf, type Channel } from './channels.js';
 import { rateProfile, traceSpans, type RateProfile } from './profiles.js';
+import { beatMeans, errorOf, lagOf, trailingMean, type ErrorStats } from './readout.js';
 import { allocTurn, fits, runTurn, turnPlan, type TurnPlan, type TurnRun, type TurnWorkspace } from './run.js';
 import { decimate, decimation, describeDecimation, keptTimes, type Decimation, type Leaf } from './series.js';
 
@@ -23,13 +26,47 @@ export const TURN_UNITS = {
 
 type Rates = { roll: number; pitch: number; yaw: number };
 
+type Nullable<T> = { [K in keyof T]: T[K] | null };
+
 export interface BeatRow {
   /** Centre of the beat (s). */
   time: number;
   /** Body rates averaged over the beat (rad/s). */
   trueRate: Rates;
-  /** Rates the pair estimates from the lock-in outputs over the window ending with this beat (rad/s). */
-  estimatedRate: Rates;
+  /**
+   * Rates the pair estimates from the lock-in outputs over the window ending with this beat
+   * (rad/s); null for an axis that the channels cannot observe.
+   */
+  estimatedRate: Nullable<Rates>;
+  /** This beat's in-phase lock-in output of every channel (N), in the order of `readout.channels`. */
+  inPhase: number[];
+}
+
+export interface ChannelAnswer {
+  side: Side;
+  role: 'specified' | 'mirror';
+  axis: Axis;
+  order: number;
+  referencePhase: number;
+  /** In-phase output per unit rate (N per rad/s). */
+  sensitivity: Rates;
+  /** In-phase output of the body at rest in its initial attitude (N), subtracted before estimating. */
+  baseline: number;
+}
+
+export interface Readout {
+  /** The lock-in integration window: the estimate at a beat averages the last `beats` beats. */
+  window: { beats: number; time: number };
+  channels: ChannelAnswer[];
+  /** Of the sensitivity matrix (whitened when the channels carry noise); null when singular. */
+  conditionNumber: number | null;
+  /** Rate combinations the channels cannot tell apart (see sensing). */
+  confusions: string[];
+  /**
+   * Spread (1σ, rad/s) of the estimated rate over a full window from the sensor's noise, per axis;
+   * present when the scenario's noise model covers the channels (sensor.readoutNoise as a force density).
+   */
+  noise?: Nullable<Rates>;
 }
 
 export interface TurnSeries {
@@ -58,7 +95,12 @@ export interface TurnAnswer {
     sampleInterval: number;
   };
   attitude: { initial: Rates; final: Rates; normDrift: number };
+  readout: Readout;
   beats: BeatRow[];
+  /** Delay of the estimated rate behind the true one (s), per axis; null where the rate does not vary. */
+  lag: Nullable<Rates>;
+  /** Estimated − true over the beats, per axis; null where the axis is not observable. */
+  error: Record<keyof Rates, ErrorStats | null>;
   series?: TurnSeries;
 }
 
@@ -160,7 +202,17 @@ export function turnOf(s: Scenario): TurnResult {
   const g = b.gravity === true ? STANDARD_GRAVITY : b.gravity === false ? 0 : b.gravity;
   const ws = workspaceFor(plan);
   const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror }, plan, ws);
-  const beats = beatRows(run);
+  const path = choosePath(s, model);
+  const channels = channelsOf(model, 'path' in path ? path.path : 'sampled', plan.pointsPerBeat, Math.max(1, s.sampling.harmonics));
+  const integration = s.sensor?.integration ?? { beats: 10 };
+  const window = Math.max(1, typeof integration === 'number' ? Math.round(integration * plan.frequency) : integration.beats);
+  const sigma = channelSigma(s, window / plan.frequency);
+  const read = readOut(run, channels, window, s.sensor?.threshold ?? 1, sigma);
+  const warnings = turnWarnings(s, model, plan, profile);
+  if (window > plan.beats) warnings.push(`the integration window (${window} beats) is longer than the run (${plan.beats} beats); every estimate averages fewer beats than the window`);
+  for (const c of read.analysis.confusions) warnings.push(c.message);
+  const rn = s.sensor?.readoutNoise;
+  if (rn && rn.dimension !== 'forceDensity') warnings.push('sensor.readoutNoise is given in strain or displacement units; the turn reads the load channels, so the estimator runs unweighted and no rate noise is reported');
   const last = plan.samples - 1;
   const q = run.q;
   return {
@@ -169,29 +221,104 @@ export function turnOf(s: Scenario): TurnResult {
       version: VERSION,
       scenario: s,
       units: TURN_UNITS,
-      warnings: turnWarnings(s, model, plan, profile),
+      warnings,
       run: { duration: b.maneuver?.duration ?? plan.beats / plan.frequency, beats: plan.beats, pointsPerBeat: plan.pointsPerBeat, samples: plan.samples, sampleInterval: plan.dt },
       attitude: { initial: { ...b.attitude }, final: toEuler(q.w[last] as number, q.x[last] as number, q.y[last] as number, q.z[last] as number), normDrift: run.attitude.normDrift },
-      beats,
+      readout: {
+        window: { beats: window, time: window / plan.frequency },
+        channels: channels.map((c) => ({
+          side: side(model, c.organ === 1), role: c.organ === 1 ? 'mirror' : 'specified', axis: c.axisName, order: c.order, referencePhase: c.referencePhase,
+          sensitivity: { roll: c.sensitivity[0], pitch: c.sensitivity[1], yaw: c.sensitivity[2] }, baseline: c.baseline,
+        })),
+        conditionNumber: read.analysis.conditionNumber,
+        confusions: read.analysis.confusions.map((c) => c.message),
+        ...(sigma > 0 ? { noise: noiseOf(read.analysis) } : {}),
+      },
+      beats: read.rows,
+      lag: read.lag,
+      error: read.error,
       ...(s.output.series ? { series: seriesOf(run, model, planned.decimation, ws) } : {}),
     },
   };
 }
 
-function beatRows(run: TurnRun): BeatRow[] {
-  const { plan, motion } = run;
-  const n = plan.pointsPerBeat;
-  const rows: BeatRow[] = [];
-  const mean = (x: Float64Array, b: number) => {
-    let s = 0;
-    for (let j = b * n; j < (b + 1) * n; j++) s += x[j] as number;
-    return s / n;
+/**
+ * Spread of one channel's in-phase output over a window of T seconds: σ = √(S/T) for the one-sided
+ * white readout noise S = ρ² of a force density ρ (sensing, lockin.ts). 0 when the scenario has no
+ * force-density readout noise (the estimator then runs unweighted and no noise is reported).
+ */
+function channelSigma(s: Scenario, time: number): number {
+  const r = s.sensor?.readoutNoise;
+  return r && r.dimension === 'forceDensity' && r.value > 0 ? outputNoise(r.value * r.value, time) : 0;
+}
+
+function noiseOf(a: PairAnalysis): Nullable<Rates> {
+  const sd = (i: number) => {
+    const c = a.covariance[i]?.[i];
+    return c === null || c === undefined ? null : Math.sqrt(c);
   };
-  for (let b = 0; b < plan.beats; b++) {
-    const trueRate = { roll: mean(motion.wx, b), pitch: mean(motion.wy, b), yaw: mean(motion.wz, b) };
-    rows.push({ time: (b + 0.5) / plan.frequency, trueRate, estimatedRate: { ...trueRate } });
+  return { roll: sd(0), pitch: sd(1), yaw: sd(2) };
+}
+
+interface ReadOutResult {
+  rows: BeatRow[];
+  analysis: PairAnalysis;
+  lag: Nullable<Rates>;
+  error: Record<keyof Rates, ErrorStats | null>;
+}
+
+const one: Demodulated = { inPhase: new Float64Array(1), quadrature: new Float64Array(1) };
+
+/**
+ * Beat by beat: the in-phase output of every channel over each beat (lock-in, sensing), the
+ * baseline removed, averaged over the trailing window and turned into rates by the pair's
+ * least-squares estimator; against them the true rates averaged over each beat.
+ */
+function readOut(run: TurnRun, channels: Channel[], window: number, threshold: number, sigma: number): ReadOutResult {
+  const { plan, motion } = run;
+  const n = plan.pointsPerBeat, B = plan.beats, C = channels.length;
+  const analysis = analysePair(channels.map((c) => ({ sensitivity: c.sensitivity, sigma })), { threshold });
+  const y = new Float64Array(C * B), ybar = new Float64Array(C * B);
+  channels.forEach((c, ci) => {
+    const beats = run.organs[c.organ] ?? [];
+    const start = (TOTAL * N_AXES + 3 + c.axis) * n;
+    for (let b = 0; b < B; b++) {
+      const beat = beats[b];
+      if (!beat) continue;
+      demodulate(beat.data, { order: c.order, pointsPerBeat: n, referencePhase: c.referencePhase, firstSample: b * n, start, beats: 1 }, one);
+      y[ci * B + b] = (one.inPhase[0] as number) - c.baseline;
+    }
+    trailingMean(y.subarray(ci * B, (ci + 1) * B), window, B, ybar.subarray(ci * B, (ci + 1) * B));
+  });
+  const truth = [new Float64Array(B), new Float64Array(B), new Float64Array(B)];
+  const est = [new Float64Array(B), new Float64Array(B), new Float64Array(B)];
+  beatMeans(motion.wx, n, B, truth[0] as Float64Array);
+  beatMeans(motion.wy, n, B, truth[1] as Float64Array);
+  beatMeans(motion.wz, n, B, truth[2] as Float64Array);
+  const yb = new Float64Array(C), e = new Float64Array(3);
+  const rows: BeatRow[] = [];
+  const seen = RATE_AXES.map((a) => analysis.observable[a]);
+  for (let b = 0; b < B; b++) {
+    for (let ci = 0; ci < C; ci++) yb[ci] = ybar[ci * B + b] as number;
+    estimateRates(analysis, yb, e);
+    const inPhase = new Array<number>(C);
+    for (let ci = 0; ci < C; ci++) inPhase[ci] = (y[ci * B + b] as number) + (channels[ci] as Channel).baseline;
+    for (let a = 0; a < 3; a++) (est[a] as Float64Array)[b] = e[a] as number;
+    const pick = (x: Float64Array[], a: number) => (x[a] as Float64Array)[b] as number;
+    rows.push({
+      time: (b + 0.5) / plan.frequency,
+      trueRate: { roll: pick(truth, 0), pitch: pick(truth, 1), yaw: pick(truth, 2) },
+      estimatedRate: { roll: seen[0] ? pick(est, 0) : null, pitch: seen[1] ? pick(est, 1) : null, yaw: seen[2] ? pick(est, 2) : null },
+      inPhase,
+    });
   }
-  return rows;
+  const per = <T>(f: (a: number) => T | null) => ({ roll: f(0), pitch: f(1), yaw: f(2) });
+  return {
+    rows,
+    analysis,
+    lag: per((a) => (seen[a] ? lagOf(truth[a] as Float64Array, est[a] as Float64Array, B, window, plan.frequency) : null)),
+    error: per((a) => (seen[a] ? errorOf(truth[a] as Float64Array, est[a] as Float64Array, B) : null)),
+  };
 }
 
 /** Euler angles at every sample, into the workspace's half-grid buffers (free after the run). */
