@@ -1,5 +1,6 @@
 /** Every command of the command line; a new command is one module added here. */
 import type { Command } from '../io.js';
 import { forcesCommand } from './forces.js';
+import { turnCommand } from './turn.js';
 
-export const COMMANDS: readonly Command[] = [forcesCommand];
+export const COMMANDS: readonly Command[] = [forcesCommand, turnCommand];

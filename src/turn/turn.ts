@@ -78,7 +78,13 @@ export interface TurnSeries {
   attitude: Record<keyof Rates, Leaf>;
   /** Gravity in body axes (m/s²). */
   gravity: Record<'x' | 'y' | 'z', Leaf>;
-  organs: { side: Side; role: 'specified' | 'mirror'; loads: Record<Component, Partial<Record<Axis, Leaf>>> }[];
+  organs: {
+    side: Side;
+    role: 'specified' | 'mirror';
+    loads: Record<Component, Partial<Record<Axis, Leaf>>>;
+    /** Stalk strain at the base (with a stalk): axial, in plane, out of plane. */
+    strain?: Record<'axial' | 'inPlane' | 'outOfPlane', Leaf>;
+  }[];
 }
 
 export interface TurnAnswer {
