@@ -1,0 +1,98 @@
+/**
+ * The OpenAPI 3.0 document, written from the route specs and their zod schemas (request side for
+ * bodies, query strings and parameters; answer side for responses), so that the schema that
+ * validates a request is the schema that documents it.
+ */
+import { z } from 'zod';
+import { VERSION } from '../src/version.js';
+import type { AnyRoute } from './route.js';
+import { ErrorSchema } from './schemas.js';
+
+export interface RouteGroup {
+  prefix: string;
+  routes: readonly AnyRoute[];
+}
+
+type Json = Record<string, unknown>;
+
+export interface OpenApiOptions {
+  /** zod schemas that stand for a component (e.g. the scenario inside a sweep request). */
+  refs?: ReadonlyMap<z.ZodType, string>;
+}
+
+const toSchema = (schema: z.ZodType, io: 'input' | 'output', refs: ReadonlyMap<z.ZodType, string>): Json =>
+  z.toJSONSchema(schema, {
+    target: 'openapi-3.0',
+    io,
+    unrepresentable: 'any',
+    override: (ctx) => {
+      const ref = refs.get(ctx.zodSchema as unknown as z.ZodType);
+      if (ref === undefined) return;
+      const js = ctx.jsonSchema as Json;
+      for (const k of Object.keys(js)) if (k !== 'description') delete js[k];
+      js.$ref = `#/components/schemas/${ref}`;
+    },
+  }) as Json;
+
+const openApiPath = (url: string): string => url.replace(/:([A-Za-z_]\w*)/g, '{$1}');
+
+function parameters(where: 'query' | 'path', schema: z.ZodType | undefined, refs: ReadonlyMap<z.ZodType, string>): Json[] {
+  if (!schema) return [];
+  const shape = (schema as unknown as { shape?: Record<string, z.ZodType> }).shape;
+  if (!shape) return [];
+  return Object.entries(shape).map(([name, field]) => {
+    const js = toSchema(field, 'input', refs);
+    const { description, ...rest } = js;
+    return { name, in: where, required: where === 'path' || !field.safeParse(undefined).success, ...(description ? { description } : {}), schema: rest };
+  });
+}
+
+const refTo = (name: string): Json => ({ $ref: `#/components/schemas/${name}` });
+
+/** The whole document. */
+export function openApiDocument(groups: readonly RouteGroup[], opts: OpenApiOptions = {}): Json {
+  const refs = opts.refs ?? new Map();
+  const components: Record<string, Json> = { Error: toSchema(ErrorSchema, 'output', refs) };
+  const paths: Record<string, Record<string, Json>> = {};
+  const tags = new Set<string>();
+  for (const { prefix, routes } of groups) {
+    for (const r of routes) {
+      const url = openApiPath(`${prefix}${r.url}`);
+      if (r.body && components[r.body.ref] === undefined) components[r.body.ref] = toSchema(r.body.schema, 'input', refs);
+      const responses: Record<string, Json> = {};
+      for (const [status, spec] of Object.entries(r.responses)) {
+        const content: Json = {};
+        if (spec.ref) content['application/json'] = { schema: refTo(spec.ref) };
+        else if (spec.schema) content['application/json'] = { schema: toSchema(spec.schema, 'output', refs) };
+        if (spec.csv) content['text/csv'] = { schema: { type: 'string', description: 'a CSV table (RFC 4180) whose header row names units' } };
+        responses[status] = { description: spec.description, ...(Object.keys(content).length > 0 ? { content } : {}) };
+      }
+      for (const t of r.tags ?? []) tags.add(t);
+      const params = [...parameters('path', r.params, refs), ...parameters('query', r.query, refs)];
+      paths[url] ??= {};
+      (paths[url] as Record<string, Json>)[r.method.toLowerCase()] = {
+        operationId: r.operationId,
+        summary: r.summary,
+        ...(r.description ? { description: r.description } : {}),
+        ...(r.tags ? { tags: r.tags } : {}),
+        ...(params.length > 0 ? { parameters: params } : {}),
+        ...(r.body ? { requestBody: { required: true, description: r.body.description, content: { 'application/json': { schema: refTo(r.body.ref) } } } } : {}),
+        responses,
+      };
+    }
+  }
+  return {
+    openapi: '3.0.3',
+    info: {
+      title: 'beatforce',
+      version: VERSION,
+      description:
+        'Inertial loads on an oscillating mass carried by a turning body (haltere-like organs and vibratory rate gyros). Quantities are SI numbers or strings with units. Every answer carries `version` and `inputHash`; refusals share the `Error` shape. Numbers support research and design; they do not certify a navigation or safety sensor.',
+      license: { name: 'MIT' },
+    },
+    servers: [{ url: '/' }],
+    tags: [...tags].map((name) => ({ name })),
+    paths,
+    components: { schemas: components },
+  };
+}
