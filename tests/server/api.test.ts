@@ -47,7 +47,7 @@ describe('POST /api/v1/forces', () => {
     expect(lib.ok).toBe(true);
     if (!lib.ok) return;
     const hash = expectedHash(fly);
-    expect(r.json()).toEqual(wire({ version: PKG_VERSION, inputHash: hash, ...lib.answer }));
+    expect(r.json()).toEqual(wire({ ...lib.answer, version: PKG_VERSION, inputHash: hash }));
     expect(r.headers['x-input-hash']).toBe(hash);
     expect(r.headers['content-type']).toBe('application/json; charset=utf-8');
     // The documented answer schema holds the real answer (strict objects: nothing undocumented).
