@@ -9,4 +9,5 @@ export { toSI, DIMENSIONS } from './units.js';
 export { LIMITS } from './limits.js';
 export { harmonicsCsv, seriesCsv } from './tables.js';
 export { toCsv } from './csv.js';
+export { sweep, sweepCsv, SweepRequestSchema, SWEEP_FIELDS, SWEEP_LIMITS, type SweepAnswer, type SweepRequestInput, type SweepResult } from './sweep.js';
 export { VERSION } from './version.js';

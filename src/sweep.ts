@@ -19,6 +19,7 @@
  */
 import { z } from 'zod';
 import { axesOf, COMPONENTS, LINEAR_AXES, ROTARY_AXES, type Axis, type Component } from './components.js';
+import { toCsv } from './csv.js';
 import { choosePath, organNumbers, type Path } from './forces.js';
 import { amplitudePhase, lineIndex } from './harmonics.js';
 import { LIMITS, type LimitName } from './limits.js';
@@ -588,4 +589,9 @@ function perPointSweep(req: SweepRequest, p: Plan, options: SweepOptions): Sweep
 
 /** Column names with units for CSV: "name_unit" ("name" for plain numbers). */
 export const csvHeader = (c: SweepColumn): string => (c.unit === '1' || c.unit === '' ? c.name : `${c.name}_${c.unit}`);
+
+/** The sweep table as CSV: one row per grid point, a header that names units. */
+export function sweepCsv(a: SweepAnswer): string {
+  return toCsv(a.columns.map(csvHeader), a.rows);
+}
 

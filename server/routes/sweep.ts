@@ -1,7 +1,6 @@
 /** POST /api/v1/sweep: chosen outputs over a grid of one or two scenario fields. */
 import { z } from 'zod';
-import { toCsv } from '../../src/csv.js';
-import { csvHeader, sweep, SweepRequestSchema, type SensingFn, type SweepAnswer } from '../../src/sweep.js';
+import { sweep, sweepCsv, SweepRequestSchema, type SensingFn } from '../../src/sweep.js';
 import { sendIssues } from '../errors.js';
 import { chooseFormat, FormatSchema, sendCsv, sendJson } from '../format.js';
 import { inputHash } from '../hash.js';
@@ -17,10 +16,6 @@ export const SweepAnswerSchema = z.strictObject({
   rows: z.array(z.array(z.number().nullable())).meta({ description: 'one row per grid point (first field outer): the varied values, then the outputs in request order; null where not finite' }),
   warnings: z.array(z.string()),
 });
-
-export function sweepCsv(a: SweepAnswer): string {
-  return toCsv(a.columns.map(csvHeader), a.rows);
-}
 
 export interface SweepRouteOptions {
   sensing?: SensingFn;
