@@ -51,42 +51,50 @@ export interface AttitudeReport {
   normDrift: number;
 }
 
-const k = new Float64Array(16);
-
-/** ½ q ⊗ (0, ω) into k[at..at+3]. */
-function slope(w: number, x: number, y: number, z: number, ox: number, oy: number, oz: number, at: number): void {
-  k[at] = -0.5 * (x * ox + y * oy + z * oz);
-  k[at + 1] = 0.5 * (w * ox + y * oz - z * oy);
-  k[at + 2] = 0.5 * (w * oy + z * ox - x * oz);
-  k[at + 3] = 0.5 * (w * oz + x * oy - y * ox);
-}
-
 /**
- * Integrate the attitude over n samples of step h from q0 (normalised here). `half` holds Ω on the
- * half-step grid t = i·h/2, i = 0..2n−2 (x, y, z arrays), so that RK4 finds Ω at t, t + h/2, t + h.
- * Writes q at every sample into `out`; returns the normalisation drift.
+ * Integrate the attitude over n samples of step h from q0 (normalised here). `rate` holds Ω at the
+ * samples t_j = j·h and `mid` at the midpoints t_j + h/2 (x, y, z arrays), so that RK4 finds Ω at
+ * t, t + h/2 and t + h. Writes q at every sample into `out`; returns the normalisation drift.
+ * The four slopes ½ q ⊗ (0, ω) are written out in place (no calls, no allocation per step).
  */
-export function integrateAttitude(q0: Quaternion, half: readonly [Float64Array, Float64Array, Float64Array], h: number, n: number, out: QuaternionSeries): AttitudeReport {
-  const [hx, hy, hz] = half;
+export function integrateAttitude(
+  q0: Quaternion,
+  rate: readonly [Float64Array, Float64Array, Float64Array],
+  mid: readonly [Float64Array, Float64Array, Float64Array],
+  h: number,
+  n: number,
+  out: QuaternionSeries,
+): AttitudeReport {
+  const [rx, ry, rz] = rate;
+  const [mx, my, mz] = mid;
   const n0 = Math.hypot(...q0);
   let w = q0[0] / n0, x = q0[1] / n0, y = q0[2] / n0, z = q0[3] / n0;
   let drift = 0;
+  const g = h / 2, s = h / 6;
   out.w[0] = w; out.x[0] = x; out.y[0] = y; out.z[0] = z;
   for (let j = 0; j + 1 < n; j++) {
-    const i = 2 * j;
-    const ax = hx[i] as number, ay = hy[i] as number, az = hz[i] as number;
-    const bx = hx[i + 1] as number, by = hy[i + 1] as number, bz = hz[i + 1] as number;
-    const cx = hx[i + 2] as number, cy = hy[i + 2] as number, cz = hz[i + 2] as number;
-    slope(w, x, y, z, ax, ay, az, 0);
-    const g = h / 2;
-    slope(w + g * (k[0] as number), x + g * (k[1] as number), y + g * (k[2] as number), z + g * (k[3] as number), bx, by, bz, 4);
-    slope(w + g * (k[4] as number), x + g * (k[5] as number), y + g * (k[6] as number), z + g * (k[7] as number), bx, by, bz, 8);
-    slope(w + h * (k[8] as number), x + h * (k[9] as number), y + h * (k[10] as number), z + h * (k[11] as number), cx, cy, cz, 12);
-    const s = h / 6;
-    w += s * ((k[0] as number) + 2 * (k[4] as number) + 2 * (k[8] as number) + (k[12] as number));
-    x += s * ((k[1] as number) + 2 * (k[5] as number) + 2 * (k[9] as number) + (k[13] as number));
-    y += s * ((k[2] as number) + 2 * (k[6] as number) + 2 * (k[10] as number) + (k[14] as number));
-    z += s * ((k[3] as number) + 2 * (k[7] as number) + 2 * (k[11] as number) + (k[15] as number));
+    const ax = rx[j] as number, ay = ry[j] as number, az = rz[j] as number;
+    const bx = mx[j] as number, by = my[j] as number, bz = mz[j] as number;
+    const cx = rx[j + 1] as number, cy = ry[j + 1] as number, cz = rz[j + 1] as number;
+    // k1 at (q, Ω(t))
+    const k1w = -0.5 * (x * ax + y * ay + z * az), k1x = 0.5 * (w * ax + y * az - z * ay);
+    const k1y = 0.5 * (w * ay + z * ax - x * az), k1z = 0.5 * (w * az + x * ay - y * ax);
+    // k2 at (q + h/2 k1, Ω(t + h/2))
+    let pw = w + g * k1w, px = x + g * k1x, py = y + g * k1y, pz = z + g * k1z;
+    const k2w = -0.5 * (px * bx + py * by + pz * bz), k2x = 0.5 * (pw * bx + py * bz - pz * by);
+    const k2y = 0.5 * (pw * by + pz * bx - px * bz), k2z = 0.5 * (pw * bz + px * by - py * bx);
+    // k3 at (q + h/2 k2, Ω(t + h/2))
+    pw = w + g * k2w; px = x + g * k2x; py = y + g * k2y; pz = z + g * k2z;
+    const k3w = -0.5 * (px * bx + py * by + pz * bz), k3x = 0.5 * (pw * bx + py * bz - pz * by);
+    const k3y = 0.5 * (pw * by + pz * bx - px * bz), k3z = 0.5 * (pw * bz + px * by - py * bx);
+    // k4 at (q + h k3, Ω(t + h))
+    pw = w + h * k3w; px = x + h * k3x; py = y + h * k3y; pz = z + h * k3z;
+    const k4w = -0.5 * (px * cx + py * cy + pz * cz), k4x = 0.5 * (pw * cx + py * cz - pz * cy);
+    const k4y = 0.5 * (pw * cy + pz * cx - px * cz), k4z = 0.5 * (pw * cz + px * cy - py * cx);
+    w += s * (k1w + 2 * k2w + 2 * k3w + k4w);
+    x += s * (k1x + 2 * k2x + 2 * k3x + k4x);
+    y += s * (k1y + 2 * k2y + 2 * k3y + k4y);
+    z += s * (k1z + 2 * k2z + 2 * k3z + k4z);
     const nq = Math.sqrt(w * w + x * x + y * y + z * z);
     const d = Math.abs(nq - 1);
     if (d > drift) drift = d;

@@ -159,10 +159,10 @@ export function axisAt(terms: readonly Term[], t: number): { rate: number; accel
 }
 
 /**
- * Sample one axis on the grid t_j = j·dt, j = 0..count−1: Ω into `rate`, Ω̇ into `acceleration`
- * (overwritten). No allocation; splines walk their knots with a cursor.
+ * Sample one axis on the grid t_j = t0 + j·dt, j = 0..count−1: Ω into `rate`, Ω̇ into
+ * `acceleration` (overwritten). No allocation; splines walk their knots with a cursor.
  */
-export function sampleAxis(terms: readonly Term[], dt: number, count: number, rate: Float64Array, acceleration: Float64Array): void {
+export function sampleAxis(terms: readonly Term[], dt: number, count: number, rate: Float64Array, acceleration: Float64Array, t0 = 0): void {
   rate.fill(0, 0, count);
   acceleration.fill(0, 0, count);
   for (const term of terms) {
@@ -170,7 +170,7 @@ export function sampleAxis(terms: readonly Term[], dt: number, count: number, ra
     for (let j = 0; j < count; j++) {
       scratch[0] = 0;
       scratch[1] = 0;
-      const t = j * dt;
+      const t = t0 + j * dt;
       if (term.kind === 'spline') cursor = splineAt(term, t, cursor, scratch);
       else termAt(term, t, scratch);
       rate[j] = (rate[j] as number) + (scratch[0] as number);

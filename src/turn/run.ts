@@ -48,9 +48,9 @@ export interface TurnWorkspace {
   pointsPerBeat: number;
   motion: MotionSeries;
   mirrorMotion: MotionSeries;
-  /** Ω on the half-step grid (x, y, z), and a scratch for Ω̇ there. */
-  half: [Float64Array, Float64Array, Float64Array];
-  halfScratch: Float64Array;
+  /** Ω at the midpoints t_j + dt/2 (x, y, z), and a scratch for Ω̇ there. */
+  mid: [Float64Array, Float64Array, Float64Array];
+  midScratch: Float64Array;
   q: QuaternionSeries;
   loadData: [Float64Array, Float64Array];
   /** One-beat views into loadData, per organ and beat. */
@@ -78,8 +78,8 @@ export function allocTurn(samples: number, pointsPerBeat: number): TurnWorkspace
     pointsPerBeat: n,
     motion,
     mirrorMotion,
-    half: [f64(2 * N), f64(2 * N), f64(2 * N)],
-    halfScratch: f64(2 * N),
+    mid: [f64(N), f64(N), f64(N)],
+    midScratch: f64(N),
     q: { w: f64(N), x: f64(N), y: f64(N), z: f64(N) },
     loadData,
     beatViews: [views(loadData[0]), views(loadData[1])],
@@ -124,16 +124,11 @@ export function bodyMotion(input: TurnInput, plan: TurnPlan, ws: TurnWorkspace):
   const w = [m.wx, m.wy, m.wz] as const;
   const dw = [m.dwx, m.dwy, m.dwz] as const;
   for (let a = 0; a < 3; a++) {
-    const half = ws.half[a] as Float64Array;
     const terms = input.profile.axes[a] ?? [];
-    sampleAxis(terms, plan.dt / 2, 2 * N - 1, half, ws.halfScratch);
-    const wa = w[a] as Float64Array, dwa = dw[a] as Float64Array;
-    for (let j = 0; j < N; j++) {
-      wa[j] = half[2 * j] as number;
-      dwa[j] = ws.halfScratch[2 * j] as number;
-    }
+    sampleAxis(terms, plan.dt, N, w[a] as Float64Array, dw[a] as Float64Array);
+    sampleAxis(terms, plan.dt, N - 1, ws.mid[a] as Float64Array, ws.midScratch, plan.dt / 2);
   }
-  const report = integrateAttitude(input.attitude, ws.half, plan.dt, N, ws.q);
+  const report = integrateAttitude(input.attitude, w, ws.mid, plan.dt, N, ws.q);
   gravitySeries(ws.q, input.gravity, N, m.gx, m.gy, m.gz);
   m.ax.fill(input.acceleration[0], 0, N);
   m.ay.fill(input.acceleration[1], 0, N);

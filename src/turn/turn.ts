@@ -193,6 +193,40 @@ export function turn(doc: unknown): TurnResult {
   return turnOf(parsed.scenario);
 }
 
+/** The numbers of a turn before they become an answer: the run, the channels and the read-out. */
+export interface TurnNumbers {
+  plan: TurnPlan;
+  profile: RateProfile;
+  run: TurnRun;
+  channels: Channel[];
+  /** Integration window (beats). */
+  window: number;
+  /** Spread of one channel's in-phase output over the window (N); 0 without a noise model. */
+  sigma: number;
+  read: ReadOutResult;
+}
+
+/**
+ * Run a parsed, compiled, planned scenario into `ws` (default: a workspace kept between calls for
+ * runs up to CACHED_SAMPLES samples) and read it out beat by beat. The run's series are views into
+ * the workspace, valid until its next use.
+ */
+export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, ws: TurnWorkspace = workspaceFor(plan)): TurnNumbers {
+  const b = s.body;
+  const profile: RateProfile = b.maneuver
+    ? rateProfile(b.maneuver)
+    : { axes: [[{ kind: 'constant', rate: b.rate.roll }], [{ kind: 'constant', rate: b.rate.pitch }], [{ kind: 'constant', rate: b.rate.yaw }]] };
+  const g = b.gravity === true ? STANDARD_GRAVITY : b.gravity === false ? 0 : b.gravity;
+  const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror }, plan, ws);
+  const path = choosePath(s, model);
+  const channels = channelsOf(model, 'path' in path ? path.path : 'sampled', plan.pointsPerBeat, Math.max(1, s.sampling.harmonics));
+  const integration = s.sensor?.integration ?? { beats: 10 };
+  const window = Math.max(1, typeof integration === 'number' ? Math.round(integration * plan.frequency) : integration.beats);
+  const sigma = channelSigma(s, window / plan.frequency);
+  const read = readOut(run, channels, window, s.sensor?.threshold ?? 1, sigma);
+  return { plan, profile, run, channels, window, sigma, read };
+}
+
 /** The turn answer for a parsed scenario. */
 export function turnOf(s: Scenario): TurnResult {
   const planned = planOf(s);
@@ -201,19 +235,9 @@ export function turnOf(s: Scenario): TurnResult {
   const compiled = compile(s);
   if (!compiled.ok) return compiled;
   const model = compiled.model;
-  const b = s.body;
-  const profile: RateProfile = b.maneuver
-    ? rateProfile(b.maneuver)
-    : { axes: [[{ kind: 'constant', rate: b.rate.roll }], [{ kind: 'constant', rate: b.rate.pitch }], [{ kind: 'constant', rate: b.rate.yaw }]] };
-  const g = b.gravity === true ? STANDARD_GRAVITY : b.gravity === false ? 0 : b.gravity;
   const ws = workspaceFor(plan);
-  const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror }, plan, ws);
-  const path = choosePath(s, model);
-  const channels = channelsOf(model, 'path' in path ? path.path : 'sampled', plan.pointsPerBeat, Math.max(1, s.sampling.harmonics));
-  const integration = s.sensor?.integration ?? { beats: 10 };
-  const window = Math.max(1, typeof integration === 'number' ? Math.round(integration * plan.frequency) : integration.beats);
-  const sigma = channelSigma(s, window / plan.frequency);
-  const read = readOut(run, channels, window, s.sensor?.threshold ?? 1, sigma);
+  const { profile, run, channels, window, sigma, read } = turnNumbers(s, model, plan, ws);
+  const b = s.body;
   const warnings = turnWarnings(s, model, plan, profile);
   if (window > plan.beats) warnings.push(`the integration window (${window} beats) is longer than the run (${plan.beats} beats); every estimate averages fewer beats than the window`);
   for (const c of read.analysis.confusions) warnings.push(c.message);
@@ -266,7 +290,7 @@ function noiseOf(a: PairAnalysis): Nullable<Rates> {
   return { roll: sd(0), pitch: sd(1), yaw: sd(2) };
 }
 
-interface ReadOutResult {
+export interface ReadOutResult {
   rows: BeatRow[];
   analysis: PairAnalysis;
   lag: Nullable<Rates>;
@@ -327,7 +351,7 @@ function readOut(run: TurnRun, channels: Channel[], window: number, threshold: n
   };
 }
 
-/** Euler angles at every sample, into the workspace's half-grid buffers (free after the run). */
+/** Euler angles at every sample, into the workspace's midpoint buffers (free after the run). */
 function eulerSeries(q: QuaternionSeries, N: number, out: [Float64Array, Float64Array, Float64Array]): void {
   const [r, p, y] = out;
   for (let j = 0; j < N; j++) {
@@ -342,7 +366,7 @@ function seriesOf(run: TurnRun, model: Model, d: Decimation, ws: TurnWorkspace):
   const { plan, motion } = run;
   const N = plan.samples;
   const dec = (x: Float64Array, start = 0) => decimate(d, plan, x, start);
-  const euler = ws.half; // Ω on the half grid is spent once the attitude is integrated
+  const euler = ws.mid; // Ω at the midpoints is spent once the attitude is integrated
   eulerSeries(run.q, N, euler);
   const axes = axesOf(model.geometry.drive);
   const n = plan.pointsPerBeat;

@@ -23,11 +23,15 @@ const rodrigues = (axis: number[], angle: number): M3 => {
 
 /** Run the attitude over n samples of step h for a profile, as the turn engine does. */
 function attitudeOf(profile: RateProfile, q0: Quaternion, h: number, n: number) {
-  const half = [new Float64Array(2 * n), new Float64Array(2 * n), new Float64Array(2 * n)] as [Float64Array, Float64Array, Float64Array];
-  const scratch = new Float64Array(2 * n);
-  for (let a = 0; a < 3; a++) sampleAxis(profile.axes[a] ?? [], h / 2, 2 * n - 1, half[a] as Float64Array, scratch);
+  const three = () => [new Float64Array(n), new Float64Array(n), new Float64Array(n)] as [Float64Array, Float64Array, Float64Array];
+  const rate = three(), mid = three();
+  const scratch = new Float64Array(n);
+  for (let a = 0; a < 3; a++) {
+    sampleAxis(profile.axes[a] ?? [], h, n, rate[a] as Float64Array, scratch);
+    sampleAxis(profile.axes[a] ?? [], h, n - 1, mid[a] as Float64Array, scratch, h / 2);
+  }
   const out = { w: new Float64Array(n), x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n) };
-  const report = integrateAttitude(q0, half, h, n, out);
+  const report = integrateAttitude(q0, rate, mid, h, n, out);
   return { out, report };
 }
 
