@@ -9,6 +9,7 @@ import fastifyStatic from '@fastify/static';
 import Fastify, { type FastifyError, type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import { VERSION } from '../src/version.js';
 import { registerCors } from './cors.js';
+import { SERVICE_LIMITS } from './limits.js';
 import { frameworkError, sendError } from './errors.js';
 import { openApiDocument, type RouteGroup } from './openapi.js';
 import { routesPlugin, type AnyRoute } from './route.js';
@@ -20,16 +21,7 @@ import { sweepRoute } from './routes/sweep.js';
 import { ScenarioDocumentSchema } from '../src/sweep.js';
 
 export const API_PREFIX = '/api/v1';
-
-/** Limits of the service itself (the core's limits on work per request are in src/limits.ts). */
-export const SERVICE_LIMITS = {
-  /** Request body size (bytes). */
-  bodyBytes: 2 * 1024 * 1024,
-  /** Compute-time budget of one sweep (ms); checked between grid points. */
-  sweepTimeMs: 5_000,
-  /** Time to receive a whole request (ms). */
-  requestTimeoutMs: 30_000,
-} as const;
+export { SERVICE_LIMITS };
 
 export interface AppOptions {
   /** fastify's logger (off by default). */

@@ -2,9 +2,11 @@
 import { z } from 'zod';
 import { COMPONENTS, LINEAR_AXES, ROTARY_AXES } from '../../src/components.js';
 import { forces } from '../../src/forces.js';
+import { LIMITS } from '../../src/limits.js';
 import { ScenarioSchema } from '../../src/scenario.js';
 import { harmonicsCsv, seriesCsv } from '../../src/tables.js';
-import { sendIssues } from '../errors.js';
+import { sendIssues, type ServiceIssue } from '../errors.js';
+import { SERVICE_LIMITS } from '../limits.js';
 import { chooseFormat, FormatSchema, sendCsv, sendJson } from '../format.js';
 import { inputHash } from '../hash.js';
 import { defineRoute } from '../route.js';
@@ -50,6 +52,29 @@ export const ForcesAnswerSchema = z.strictObject({
   organs: z.array(OrganAnswerSchema).meta({ description: 'the organ as specified, then its mirror' }),
 });
 
+const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+
+/**
+ * The service's limit on series in one answer (SERVICE_LIMITS.seriesSamples per organ): checked on
+ * the raw document before any work, so that a refusal costs microseconds. Values that are not
+ * whole numbers are left to the scenario's own checks.
+ */
+export function seriesOverLimit(doc: unknown): ServiceIssue | undefined {
+  if (!isObject(doc)) return undefined;
+  const output = doc.output, sampling = doc.sampling;
+  if (isObject(output) && output.series === false) return undefined;
+  const n = isObject(sampling) && sampling.pointsPerBeat !== undefined ? sampling.pointsPerBeat : 256;
+  const beats = isObject(sampling) && sampling.beats !== undefined ? sampling.beats : 1;
+  if (!Number.isInteger(n) || !Number.isInteger(beats)) return undefined;
+  const samples = (n as number) * (beats as number);
+  if (samples <= SERVICE_LIMITS.seriesSamples || samples > LIMITS.samplesPerRequest) return undefined;
+  return {
+    path: 'sampling.beats',
+    message: `${n} points × ${beats} beats = ${samples} samples of series is over the service's limit of ${SERVICE_LIMITS.seriesSamples} samples per organ in one answer; set output.series to false for the lines alone`,
+    limit: 'seriesSamples',
+  };
+}
+
 const ForcesQuery = z.strictObject({
   format: FormatSchema.optional(),
   table: z.enum(['harmonics', 'series'], { error: 'is not a table; expected harmonics or series' }).optional().meta({ description: 'with CSV: the harmonic lines (default) or the load series' }),
@@ -70,6 +95,11 @@ export const forcesRoute = defineRoute({
   },
   handler(request, reply, { query }) {
     const hash = inputHash(request.body);
+    const over = seriesOverLimit(request.body);
+    if (over) {
+      sendIssues(reply, [over], hash);
+      return;
+    }
     const r = forces(request.body);
     if (!r.ok) {
       sendIssues(reply, r.issues, hash);

@@ -135,6 +135,23 @@ describe('POST /api/v1/forces', () => {
     });
   });
 
+  it('refuses series over the service limit before any work, and answers the lines alone', async () => {
+    const doc = { ...fly, sampling: { pointsPerBeat: 4096, beats: 4, harmonics: 8 } };
+    const r = await post('/api/v1/forces', doc);
+    expect(r.statusCode).toBe(413);
+    expect(r.json()).toEqual({
+      error: 'over_limit',
+      message: 'the request asks for more work than one request may',
+      issues: [{ path: 'sampling.beats', message: "4096 points × 4 beats = 16384 samples of series is over the service's limit of 8192 samples per organ in one answer; set output.series to false for the lines alone", limit: 'seriesSamples' }],
+      version: PKG_VERSION,
+      inputHash: expectedHash(doc),
+      limit: 'seriesSamples',
+    });
+    const lines = await post('/api/v1/forces', { ...doc, output: { series: false } });
+    expect(lines.statusCode).toBe(200);
+    expect((lines.json() as { organs: { series?: unknown }[] }).organs.every((o) => o.series === undefined)).toBe(true);
+  });
+
   it('refuses a body over the size limit with 413 in the same shape', async () => {
     const big = { ...fly, description: 'x'.repeat(2 * 1024 * 1024) };
     const r = await post('/api/v1/forces', big);
