@@ -233,7 +233,7 @@ const linear = z.strictObject({
 
 const organ = z.preprocess(
   (v) => (v !== null && typeof v === 'object' && !Array.isArray(v) && !('drive' in v) ? { drive: 'rotary', ...v } : v),
-  z.discriminatedUnion('drive', [rotary, linear], { error: (iss) => (iss.input === undefined || typeof iss.input !== 'object' ? `${show(iss.input)} is not an organ; expected an object` : `drive ${show((iss.input as Record<string, unknown>).drive)} is not known; expected "rotary" or "linear"`) }),
+  z.discriminatedUnion('drive', [rotary, linear], { error: (iss) => (iss.input === undefined || iss.input === null || typeof iss.input !== 'object' ? `${show(iss.input)} is not an organ; expected an object` : `drive ${show((iss.input as Record<string, unknown>).drive)} is not known; expected "rotary" or "linear"`) }),
 );
 
 // ---- body, sensor, sampling -------------------------------------------------------------------
