@@ -6,7 +6,7 @@ import { besselJ } from './bessel.js';
 import { axesOf, COMPONENTS, N_AXES, type Axis, type Component } from './components.js';
 import { closedFormApplies, closedFormHarmonics } from './closedForm.js';
 import { allocHarmonics, loadHarmonics, toLines, type HarmonicTable, type Line } from './harmonics.js';
-import { allocKinematics, allocLoads, constantMotion, kinematics, loads, type LoadSeries } from './loads.js';
+import { allocKinematics, allocLoads, constantMotion, kinematics, loads, type Kinematics, type LoadSeries, type MotionSeries } from './loads.js';
 import { compile, mirroredMotion, type Geometry, type Model, type Motion, type Side } from './model.js';
 import { parseScenario, type Issue, type Scenario } from './scenario.js';
 import { VERSION } from './version.js';
@@ -58,7 +58,7 @@ export interface OrganNumbers {
 
 const samples = (n: number): WaveSamples => ({ s: new Float64Array(n), v: new Float64Array(n), a: new Float64Array(n) });
 
-/** One beat of loads of the specified geometry under a constant motion. */
+/** One beat of loads of the specified geometry under a constant motion (fresh arrays, owned by the caller). */
 export function sampleOrgan(g: Geometry, motion: Motion, n: number): { beat: LoadSeries; stroke: WaveSamples; deviation?: WaveSamples } {
   const table = beatTable(n);
   const stroke = sampleBeat(g.stroke, g.frequency, n, table, samples(n));
@@ -69,20 +69,54 @@ export function sampleOrgan(g: Geometry, motion: Motion, n: number): { beat: Loa
 }
 
 /**
+ * Buffers for the sampled path when no series leaves organNumbers: the core is synchronous, so one
+ * workspace per beat length serves every call (allocating them costs more than the arithmetic).
+ */
+interface SampledWorkspace { n: number; stroke: WaveSamples; deviation: WaveSamples; kin: Kinematics; beat: LoadSeries; motion: MotionSeries }
+let sampledWs: SampledWorkspace | undefined;
+function sampledWorkspace(n: number): SampledWorkspace {
+  if (!sampledWs || sampledWs.n !== n) {
+    sampledWs = { n, stroke: samples(n), deviation: samples(n), kin: allocKinematics(n), beat: allocLoads(n), motion: constantMotion({ omega: [], omegaDot: [], accel: [], gravity: [] }) };
+  }
+  return sampledWs;
+}
+
+/** Load a constant motion into a MotionSeries of stride 0. */
+function setMotion(ms: MotionSeries, m: Motion): MotionSeries {
+  ms.wx[0] = m.omega[0]; ms.wy[0] = m.omega[1]; ms.wz[0] = m.omega[2];
+  ms.dwx[0] = m.omegaDot[0]; ms.dwy[0] = m.omegaDot[1]; ms.dwz[0] = m.omegaDot[2];
+  ms.ax[0] = m.accel[0]; ms.ay[0] = m.accel[1]; ms.az[0] = m.accel[2];
+  ms.gx[0] = m.gravity[0]; ms.gy[0] = m.gravity[1]; ms.gz[0] = m.gravity[2];
+  return ms;
+}
+
+/** Harmonic lines of one beat on the sampled path, in the shared workspace (nothing returned but the table). */
+function sampledHarmonics(g: Geometry, motion: Motion, n: number, out: HarmonicTable): HarmonicTable {
+  const ws = sampledWorkspace(n);
+  const table = beatTable(n);
+  const stroke = sampleBeat(g.stroke, g.frequency, n, table, ws.stroke);
+  const deviation = g.deviation ? sampleBeat(g.deviation, g.frequency, n, table, ws.deviation) : undefined;
+  kinematics(g, stroke, deviation, ws.kin);
+  loads(ws.kin, setMotion(ws.motion, motion), g.mass, ws.beat);
+  return loadHarmonics(ws.beat, n, table, out.orders - 1, out);
+}
+
+/**
  * The numbers for one organ of a compiled model: `mirror` selects the mirror organ
  * (computed as the specified geometry under the mirrored motion, body axes reflected).
+ * With `series`, the beat's series are fresh arrays owned by the caller.
  */
 export function organNumbers(model: Model, opts: { mirror: boolean; path: Path; pointsPerBeat: number; harmonics: number; series: boolean }): OrganNumbers {
   const g = model.geometry;
   const motion = opts.mirror ? mirroredMotion(model.motion) : model.motion;
   const n = opts.pointsPerBeat;
-  let table = allocHarmonics(opts.harmonics);
+  const table = allocHarmonics(opts.harmonics);
   let out: OrganNumbers = { table };
-  if (opts.path === 'sampled' || opts.series) {
+  if (opts.series) {
     const s = sampleOrgan(g, motion, n);
     out = { table, beat: s.beat, stroke: s.stroke, deviation: s.deviation };
-    if (opts.path === 'sampled') table = loadHarmonics(s.beat, n, beatTable(n), opts.harmonics, table);
-  }
+    if (opts.path === 'sampled') loadHarmonics(s.beat, n, beatTable(n), opts.harmonics, table);
+  } else if (opts.path === 'sampled') sampledHarmonics(g, motion, n, table);
   if (opts.path === 'closed-form') closedFormHarmonics(g, motion, table);
   if (opts.mirror) reflectBody(out);
   return out;

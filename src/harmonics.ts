@@ -42,6 +42,103 @@ export function fourier(x: Float64Array, start: number, n: number, table: BeatTa
 }
 
 /**
+ * cos and sin of 2πkj/n laid out order by order (k = 1..K, j = 0..n−1), copied from the beat table
+ * so that every value is the table's own; cached per (n, K).
+ */
+interface OrderTable { n: number; K: number; cos: Float64Array; sin: Float64Array }
+let orderTable: OrderTable | undefined;
+function ordersOf(table: BeatTable, n: number, K: number): OrderTable {
+  if (!orderTable || orderTable.n !== n || orderTable.K !== K || table.n !== n) {
+    const cos = new Float64Array(K * n), sin = new Float64Array(K * n);
+    for (let k = 1; k <= K; k++) {
+      let m = 0;
+      for (let j = 0; j < n; j++) {
+        cos[(k - 1) * n + j] = table.cos[m] as number;
+        sin[(k - 1) * n + j] = table.sin[m] as number;
+        m += k;
+        if (m >= n) m -= n * Math.floor(m / n);
+      }
+    }
+    orderTable = { n, K, cos, sin };
+  }
+  return orderTable;
+}
+
+/** Work arrays of the folded transform (the core is synchronous; grown on demand). */
+let fold = new Float64Array(0);
+
+/**
+ * The lines of `fourier`, with the symmetries of cos and sin folded in first. Pairing j with n − j
+ * (S_j = x_j + x_{n−j}, D_j = x_j − x_{n−j}) leaves half the terms:
+ *   p_k = (2/n) [x_0 + (−1)^k x_{n/2} + Σ_{0<j<n/2} S_j cos(2πkj/n)],  q_k = (2/n) Σ_{0<j<n/2} D_j sin(2πkj/n)
+ * (x_{n/2} only for even n); for n = 4Q, pairing j with 2Q − j (cos → (−1)^k cos, sin → −(−1)^k sin)
+ * leaves a quarter: S_j ± S_{2Q−j}, D_j ∓ D_{2Q−j} for 0 < j < Q, plus S_Q cos(πk/2) and D_Q sin(πk/2).
+ * Same lines as the direct sums to rounding (fewer terms, so no less accurate).
+ */
+function fourierFolded(x: Float64Array, start: number, n: number, ot: OrderTable, maxOrder: number, out: Float64Array, outAt: number): void {
+  let sum = 0;
+  for (let j = 0; j < n; j++) sum += x[start + j] as number;
+  out[outAt] = sum / n;
+  out[outAt + 1] = 0;
+  if (maxOrder === 0) return;
+  const x0 = x[start] as number;
+  const even = n % 2 === 0;
+  const xh = even ? (x[start + n / 2] as number) : 0;
+  const H = even ? n / 2 - 1 : (n - 1) / 2; // pairs (j, n − j), 0 < j ≤ H
+  if (fold.length < 4 * (H + 1)) fold = new Float64Array(4 * (H + 1));
+  const f = fold;
+  const ct = ot.cos, st = ot.sin;
+  if (n % 4 === 0) {
+    const Q = n / 4;
+    // f[j] = S_j + S_{2Q−j}, f[Q + j] = S_j − S_{2Q−j}, f[2Q + j] = D_j + D_{2Q−j}, f[3Q + j] = D_j − D_{2Q−j}
+    for (let j = 1; j < Q; j++) {
+      const a = x[start + j] as number, b = x[start + n - j] as number;
+      const c = x[start + 2 * Q - j] as number, d = x[start + 2 * Q + j] as number; // x_{2Q−j}, x_{n−(2Q−j)}
+      const Sj = a + b, Dj = a - b, Sm = c + d, Dm = c - d;
+      f[j] = Sj + Sm; f[Q + j] = Sj - Sm; f[2 * Q + j] = Dj + Dm; f[3 * Q + j] = Dj - Dm;
+    }
+    const SQ = (x[start + Q] as number) + (x[start + 3 * Q] as number), DQ = (x[start + Q] as number) - (x[start + 3 * Q] as number);
+    for (let k = 1; k <= maxOrder; k++) {
+      const base = (k - 1) * n;
+      const odd = (k & 1) === 1;
+      const pa = odd ? Q : 0, qa = odd ? 2 * Q : 3 * Q; // odd k: S−, D+; even k: S+, D−
+      let re = 0, im = 0;
+      for (let j = 1; j < Q; j++) {
+        re += (f[pa + j] as number) * (ct[base + j] as number);
+        im += (f[qa + j] as number) * (st[base + j] as number);
+      }
+      const r4 = k & 3; // cos(πk/2), sin(πk/2) exactly
+      re += x0 + (odd ? -xh : xh) + (r4 === 0 ? SQ : r4 === 2 ? -SQ : 0);
+      im += r4 === 1 ? DQ : r4 === 3 ? -DQ : 0;
+      out[outAt + 2 * k] = (2 * re) / n;
+      out[outAt + 2 * k + 1] = (2 * im) / n;
+    }
+    return;
+  }
+  for (let j = 1; j <= H; j++) {
+    const a = x[start + j] as number, b = x[start + n - j] as number;
+    f[j] = a + b;
+    f[H + 1 + j] = a - b;
+  }
+  for (let k = 1; k <= maxOrder; k++) {
+    const base = (k - 1) * n;
+    let re = 0, im = 0;
+    for (let j = 1; j <= H; j++) {
+      re += (f[j] as number) * (ct[base + j] as number);
+      im += (f[H + 1 + j] as number) * (st[base + j] as number);
+    }
+    re += x0 + (even ? ((k & 1) === 1 ? -xh : xh) : 0);
+    out[outAt + 2 * k] = (2 * re) / n;
+    out[outAt + 2 * k + 1] = (2 * im) / n;
+  }
+}
+
+const allZero = (x: Float64Array, start: number, len: number): boolean => {
+  for (let j = start; j < start + len; j++) if (x[j] !== 0) return false;
+  return true;
+};
+
+/**
  * Harmonics of every component and axis over the first beat of a load series (the steady state is
  * periodic, so one beat holds every line). The total is the sum of the components' lines (the DFT
  * is linear); a series that is identically zero is not transformed.
@@ -50,14 +147,15 @@ export function loadHarmonics(series: LoadSeries, n: number, table: BeatTable, m
   const K1 = maxOrder + 1;
   const pq = out.pq;
   pq.fill(0);
+  const ot = ordersOf(table, n, maxOrder);
+  const N = series.n;
+  const data = series.data;
   for (let c = 0; c < TOTAL; c++) {
     for (let a = 0; a < N_AXES; a++) {
-      const start = (c * N_AXES + a) * series.n;
-      let nonzero = false;
-      for (let j = 0; j < n; j++) if (series.data[start + j] !== 0) { nonzero = true; break; }
-      if (!nonzero) continue;
+      const start = (c * N_AXES + a) * N;
+      if (allZero(data, start, n)) continue;
       const at = (c * N_AXES + a) * K1 * 2;
-      fourier(series.data, start, n, table, maxOrder, pq, at);
+      fourierFolded(data, start, n, ot, maxOrder, pq, at);
       const tot = (TOTAL * N_AXES + a) * K1 * 2;
       for (let i = 0; i < 2 * K1; i++) pq[tot + i] = (pq[tot + i] as number) + (pq[at + i] as number);
     }

@@ -10,7 +10,7 @@
  * Layout of a LoadSeries: component c, axis a, sample j at data[(c·6 + a)·n + j], components and
  * axes in the order of components.ts.
  */
-import { N_AXES, N_COMPONENTS, TOTAL } from './components.js';
+import { N_AXES, N_COMPONENTS } from './components.js';
 import type { Geometry } from './model.js';
 import type { WaveSamples } from './waveform.js';
 
@@ -129,13 +129,11 @@ export function loads(k: Kinematics, m: MotionSeries, M: number, out: LoadSeries
   const [Rx, Ry, Rz] = k.R as [Float64Array, Float64Array, Float64Array];
   const [Vx, Vy, Vz] = k.V as [Float64Array, Float64Array, Float64Array];
   const [Ax, Ay, Az] = k.A as [Float64Array, Float64Array, Float64Array];
-  const [E1x, E1y, E1z] = k.E1 as [Float64Array, Float64Array, Float64Array];
-  const [E2x, E2y, E2z] = k.E2 as [Float64Array, Float64Array, Float64Array];
-  const [E3x, E3y, E3z] = k.E3 as [Float64Array, Float64Array, Float64Array];
   const st = m.stride;
   const base = (c: number, axis: number) => (c * N_AXES + axis) * N + offset;
-  const P = base(0, 0), CF = base(1, 0), AA = base(2, 0), CO = base(3, 0), TR = base(4, 0), GR = base(5, 0), TO = base(TOTAL, 0);
-  const stepAxis = N;
+  const P = base(0, 0);
+  const cs = base(1, 0) - P; // one component further
+  let at: number;
   for (let j = 0; j < n; j++) {
     const i = (motionOffset + j) * st;
     const wx = m.wx[i] as number, wy = m.wy[i] as number, wz = m.wz[i] as number;
@@ -154,29 +152,33 @@ export function loads(k: Kinematics, m: MotionSeries, M: number, out: LoadSeries
     // translational −M a_ref, gravity M g
     const tx = -M * (m.ax[i] as number), ty = -M * (m.ay[i] as number), tz = -M * (m.az[i] as number);
     const gx = M * (m.gx[i] as number), gy = M * (m.gy[i] as number), gz = M * (m.gz[i] as number);
-    const e1x = E1x[j] as number, e1y = E1y[j] as number, e1z = E1z[j] as number;
-    const e2x = E2x[j] as number, e2y = E2y[j] as number, e2z = E2z[j] as number;
-    const e3x = E3x[j] as number, e3y = E3y[j] as number, e3z = E3z[j] as number;
-    put(d, P + j, stepAxis, px, py, pz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, CF + j, stepAxis, cx, cy, cz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, AA + j, stepAxis, ex, ey, ez, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, CO + j, stepAxis, ox, oy, oz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, TR + j, stepAxis, tx, ty, tz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, GR + j, stepAxis, gx, gy, gz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
-    put(d, TO + j, stepAxis, px + cx + ex + ox + tx + gx, py + cy + ey + oy + ty + gy, pz + cz + ez + oz + tz + gz, e1x, e1y, e1z, e2x, e2y, e2z, e3x, e3y, e3z);
+    // total: the sum of the components
+    const sx = px + cx + ex + ox + tx + gx, sy = py + cy + ey + oy + ty + gy, sz = pz + cz + ez + oz + tz + gz;
+    at = P + j; d[at] = px; d[at + N] = py; d[at + 2 * N] = pz;
+    at = P + j + 1 * cs; d[at] = cx; d[at + N] = cy; d[at + 2 * N] = cz;
+    at = P + j + 2 * cs; d[at] = ex; d[at + N] = ey; d[at + 2 * N] = ez;
+    at = P + j + 3 * cs; d[at] = ox; d[at + N] = oy; d[at + 2 * N] = oz;
+    at = P + j + 4 * cs; d[at] = tx; d[at + N] = ty; d[at + 2 * N] = tz;
+    at = P + j + 5 * cs; d[at] = gx; d[at + N] = gy; d[at + 2 * N] = gz;
+    at = P + j + 6 * cs; d[at] = sx; d[at + N] = sy; d[at + 2 * N] = sz;
   }
+  // Organ-frame projections of every component, one small loop each.
+  for (let c = 0; c < N_COMPONENTS; c++) projectOnFrame(d, P + c * cs, N, n, k);
   return out;
 }
 
-/** Write one body-axis vector and its three organ-frame projections at index `at` (axis stride `step`). */
-function put(
-  d: Float64Array, at: number, step: number, x: number, y: number, z: number,
-  e1x: number, e1y: number, e1z: number, e2x: number, e2y: number, e2z: number, e3x: number, e3y: number, e3z: number,
-): void {
-  d[at] = x;
-  d[at + step] = y;
-  d[at + 2 * step] = z;
-  d[at + 3 * step] = x * e1x + y * e1y + z * e1z;
-  d[at + 4 * step] = x * e2x + y * e2y + z * e2z;
-  d[at + 5 * step] = x * e3x + y * e3y + z * e3z;
+/**
+ * Series (x, y, z) at d[at + {0, 1, 2}·N + j] projected on the organ frame into the next three
+ * series: (F·E1, F·E2, F·E3) at d[at + {3, 4, 5}·N + j], j < n.
+ */
+function projectOnFrame(d: Float64Array, at: number, N: number, n: number, k: Kinematics): void {
+  const [E1x, E1y, E1z] = k.E1 as [Float64Array, Float64Array, Float64Array];
+  const [E2x, E2y, E2z] = k.E2 as [Float64Array, Float64Array, Float64Array];
+  const [E3x, E3y, E3z] = k.E3 as [Float64Array, Float64Array, Float64Array];
+  for (let j = 0; j < n; j++) {
+    const x = d[at + j] as number, y = d[at + N + j] as number, z = d[at + 2 * N + j] as number;
+    d[at + 3 * N + j] = x * (E1x[j] as number) + y * (E1y[j] as number) + z * (E1z[j] as number);
+    d[at + 4 * N + j] = x * (E2x[j] as number) + y * (E2y[j] as number) + z * (E2z[j] as number);
+    d[at + 5 * N + j] = x * (E3x[j] as number) + y * (E3y[j] as number) + z * (E3z[j] as number);
+  }
 }
