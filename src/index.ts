@@ -10,4 +10,6 @@ export { LIMITS } from './limits.js';
 export { harmonicsCsv, seriesCsv } from './tables.js';
 export { toCsv } from './csv.js';
 export { sweep, sweepCsv, SweepRequestSchema, SWEEP_FIELDS, SWEEP_LIMITS, type SweepAnswer, type SweepRequestInput, type SweepResult } from './sweep.js';
+export { turn, turnOf, beatsCsv, turnSeriesCsv, ManeuverSchema, DecimateSchema, type TurnAnswer, type TurnResult, type Maneuver } from './turn/index.js';
 export { VERSION } from './version.js';
+export { sensing, sensingOf, prepareSensing, rateSweep, demodulate, lockIn, analysePair, estimateRates, type SensingAnswer, type SensingResult, type SensingPlan, type RateSweep } from './sensing/index.js';

@@ -7,7 +7,8 @@
  *
  * its condition number (of the whitened matrix R^{-1/2} H, by SVD) and the rate combinations the
  * channels cannot tell apart (near-null right singular vectors). The whitened matrix is first
- * reduced to a 3 × 3 triangle by Householder QR, whose SVD (ml-matrix) has the same singular values.
+ * reduced to a 3 × 3 triangle by Householder QR, whose SVD (ml-matrix) has the same singular values
+ * and right singular vectors V; (Hᵀ R⁻¹ H)⁺ = V S⁻² Vᵀ without the null directions.
  */
 import { Matrix, SVD } from 'ml-matrix';
 
@@ -55,8 +56,21 @@ export interface PairAnalysis {
   minimumRate: Record<RateAxis, number | null>;
   observable: Record<RateAxis, boolean>;
   confusions: Confusion[];
-  /** Estimator gain G (3 × channels, row-major): Ω̂ = G y (minimum norm along null directions). */
-  gain: Float64Array;
+  /** (Hᵀ R⁻¹ H)⁺ (3 × 3, row-major; pseudo-inverse without the null directions), for the estimator. */
+  pinvGram: number[];
+  /** The rows analysed and their weights 1/σ² (1 when unweighted), for the estimator. */
+  rows: readonly PairRow[];
+  weights: number[];
+}
+
+/** Buffers reused across calls (the core is synchronous); grown when a larger pair comes. */
+let ws = { cap: 0, A: new Float64Array(0), V: new Float64Array(0), R: new Float64Array(9), beta: new Float64Array(3) };
+function workspace(n: number) {
+  if (ws.cap < n) {
+    const cap = Math.max(n, 2 * ws.cap, 64);
+    ws = { cap, A: new Float64Array(3 * cap), V: new Float64Array(3 * cap), R: ws.R, beta: ws.beta };
+  }
+  return ws;
 }
 
 /** Householder QR of the n × 3 matrix A (row-major, overwritten): R (3 × 3) and reflectors. */
@@ -87,36 +101,26 @@ function householder(A: Float64Array, n: number, R: Float64Array, V: Float64Arra
   for (let i = 0; i < Math.min(3, n); i++) for (let c = i; c < 3; c++) R[i * 3 + c] = A[i * 3 + c] as number;
 }
 
-/** Apply Qᵀ (the product of the reflectors) to a vector y of length n, in place. */
-function applyQt(V: Float64Array, beta: Float64Array, n: number, y: Float64Array): void {
-  for (let j = 0; j < 3; j++) {
-    const b = beta[j] as number;
-    if (b === 0) continue;
-    let d = 0;
-    for (let i = j; i < n; i++) d += (V[i * 3 + j] as number) * (y[i] as number);
-    d *= b;
-    for (let i = j; i < n; i++) y[i] = (y[i] as number) - d * (V[i * 3 + j] as number);
-  }
-}
-
 const dir = <T>(v: readonly T[]): Record<RateAxis, T> => ({ roll: v[0] as T, pitch: v[1] as T, yaw: v[2] as T });
 
 /** Sensitivity, covariance, condition number, confusions and estimator gain of a set of channels. */
 export function analysePair(rows: readonly PairRow[], options: PairOptions = {}): PairAnalysis {
   const { threshold = 1, confusionTolerance = 1e-6, nullTolerance = 1e-12 } = options;
   const n = rows.length;
-  const weighted = n > 0 && rows.every((r) => r.sigma > 0);
-  const A = new Float64Array(n * 3);
-  const w = new Float64Array(n);
-  rows.forEach((r, i) => {
-    w[i] = weighted ? 1 / r.sigma : 1;
-    for (let c = 0; c < 3; c++) A[i * 3 + c] = (r.sensitivity[c] as number) * (w[i] as number);
-  });
-  const R = new Float64Array(9), V = new Float64Array(Math.max(n, 3) * 3), beta = new Float64Array(3);
+  let weighted = n > 0;
+  for (let i = 0; i < n; i++) if (!((rows[i] as PairRow).sigma > 0)) weighted = false;
+  const { A, V, R, beta } = workspace(n);
+  const weights = new Array<number>(n);
+  for (let i = 0; i < n; i++) {
+    const r = rows[i] as PairRow;
+    const w = weighted ? 1 / r.sigma : 1;
+    weights[i] = w * w;
+    for (let c = 0; c < 3; c++) A[i * 3 + c] = (r.sensitivity[c] as number) * w;
+  }
   householder(A, n, R, V, beta);
   const svd = new SVD(new Matrix([[R[0], R[1], R[2]], [R[3], R[4], R[5]], [R[6], R[7], R[8]]] as number[][]), { autoTranspose: false });
   const s = svd.diagonal.map((x) => Math.abs(x));
-  const U = svd.leftSingularVectors, Vr = svd.rightSingularVectors;
+  const Vr = svd.rightSingularVectors;
   const order = [0, 1, 2].sort((a, b) => (s[b] as number) - (s[a] as number));
   const sv = order.map((i) => s[i] as number) as [number, number, number];
   const smax = sv[0];
@@ -124,24 +128,21 @@ export function analysePair(rows: readonly PairRow[], options: PairOptions = {})
   const isNull = (x: number) => !(smax > 0) || x <= nullTolerance * smax;
   const col = (M: Matrix, j: number): number[] => [M.get(0, j), M.get(1, j), M.get(2, j)];
 
-  // Null projector P0 (rate space) and pseudo-inverse pieces.
+  // Null projector P0 (rate space) and the pseudo-inverse of the Gram matrix, V S⁻² Vᵀ.
   const P0 = [0, 0, 0, 0, 0, 0, 0, 0, 0];
-  const cov = [0, 0, 0, 0, 0, 0, 0, 0, 0];
-  const M = new Float64Array(9); // V S⁻¹ U_rᵀ
+  const pinvGram = [0, 0, 0, 0, 0, 0, 0, 0, 0];
   for (const j of order) {
     const sj = s[j] as number;
-    const v = col(Vr, j), u = col(U, j);
-    if (isNull(sj)) {
-      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) P0[a * 3 + b] = (P0[a * 3 + b] as number) + (v[a] as number) * (v[b] as number);
-      continue;
-    }
+    const v = col(Vr, j);
     for (let a = 0; a < 3; a++) {
       for (let b = 0; b < 3; b++) {
-        cov[a * 3 + b] = (cov[a * 3 + b] as number) + ((v[a] as number) * (v[b] as number)) / (sj * sj);
-        M[a * 3 + b] = (M[a * 3 + b] as number) + ((v[a] as number) * (u[b] as number)) / sj;
+        const vv = (v[a] as number) * (v[b] as number);
+        if (isNull(sj)) P0[a * 3 + b] = (P0[a * 3 + b] as number) + vv;
+        else pinvGram[a * 3 + b] = (pinvGram[a * 3 + b] as number) + vv / (sj * sj);
       }
     }
   }
+  const cov = pinvGram;
   const observable = dir([0, 1, 2].map((i) => (P0[i * 4] as number) < 1e-9));
   const covariance = [0, 1, 2].map((a) => [0, 1, 2].map((b) => (weighted && observable[RATE_AXES[a] as RateAxis] && observable[RATE_AXES[b] as RateAxis] ? (cov[a * 3 + b] as number) : null)));
   const minimumRate = dir([0, 1, 2].map((i) => {
@@ -149,21 +150,8 @@ export function analysePair(rows: readonly PairRow[], options: PairOptions = {})
     return c === null || c === undefined ? null : threshold * Math.sqrt(c);
   }));
 
-  // Gain G = M Qᵀ W: row r of G at channel i is Σ_b M[r,b] (Qᵀ e_i)_b w_i.
-  const gain = new Float64Array(3 * n);
-  const e = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    e.fill(0);
-    e[i] = 1;
-    applyQt(V, beta, n, e);
-    for (let r = 0; r < 3; r++) {
-      let g = 0;
-      for (let b = 0; b < Math.min(3, n); b++) g += (M[r * 3 + b] as number) * (e[b] as number);
-      gain[r * n + i] = g * (w[i] as number);
-    }
-  }
-  const confusions = confusionsOf(order.map((j) => ({ s: s[j] as number, v: col(Vr, j) })), smax, confusionTolerance);
-  return { channels: n, weighted, singularValues: sv, conditionNumber, covariance, minimumRate, observable, confusions, gain };
+  const confusions = smax > 0 && sv[2] > confusionTolerance * smax ? [] : confusionsOf(order.map((j) => ({ s: s[j] as number, v: col(Vr, j) })), smax, confusionTolerance);
+  return { channels: n, weighted, singularValues: sv, conditionNumber, covariance, minimumRate, observable, confusions, pinvGram, rows, weights };
 }
 
 const fmt = (x: number): string => (Math.abs(x) < 5e-3 ? '0' : x.toFixed(2));
@@ -217,13 +205,30 @@ function confusionsOf(sing: { s: number; v: number[] }[], smax: number, tol: num
   return out;
 }
 
-/** Ω̂ = G y for one set of channel outputs y (rows in the order of the analysis). */
-export function estimateRates(analysis: Pick<PairAnalysis, 'gain' | 'channels'>, y: ArrayLike<number>, out: Float64Array = new Float64Array(3)): Float64Array {
-  const { gain, channels: n } = analysis;
-  for (let r = 0; r < 3; r++) {
-    let acc = 0;
-    for (let i = 0; i < n; i++) acc += (gain[r * n + i] as number) * (y[i] as number);
-    out[r] = acc;
+/**
+ * Ω̂ = (Hᵀ R⁻¹ H)⁺ Hᵀ R⁻¹ y for one set of channel outputs y (rows in the order of the analysis);
+ * along null directions the estimate is the minimum-norm one (zero).
+ */
+export function estimateRates(analysis: Pick<PairAnalysis, 'pinvGram' | 'rows' | 'weights'>, y: ArrayLike<number>, out: Float64Array = new Float64Array(3)): Float64Array {
+  const { pinvGram: P, rows, weights } = analysis;
+  let z0 = 0, z1 = 0, z2 = 0;
+  for (let i = 0; i < rows.length; i++) {
+    const h = (rows[i] as PairRow).sensitivity, wy = (weights[i] as number) * (y[i] as number);
+    z0 += h[0] * wy;
+    z1 += h[1] * wy;
+    z2 += h[2] * wy;
   }
+  for (let r = 0; r < 3; r++) out[r] = (P[r * 3] as number) * z0 + (P[r * 3 + 1] as number) * z1 + (P[r * 3 + 2] as number) * z2;
   return out;
+}
+
+/** The estimator as a gain matrix G (3 × channels, row-major): Ω̂ = G y. */
+export function estimatorGain(analysis: Pick<PairAnalysis, 'pinvGram' | 'rows' | 'weights'>): Float64Array {
+  const { pinvGram: P, rows, weights } = analysis;
+  const n = rows.length, G = new Float64Array(3 * n);
+  for (let i = 0; i < n; i++) {
+    const h = (rows[i] as PairRow).sensitivity, w = weights[i] as number;
+    for (let r = 0; r < 3; r++) G[r * n + i] = w * ((P[r * 3] as number) * h[0] + (P[r * 3 + 1] as number) * h[1] + (P[r * 3 + 2] as number) * h[2]);
+  }
+  return G;
 }
