@@ -307,6 +307,16 @@ export const ScenarioSchema = z
       if (amp !== undefined && amp >= Math.PI) issue(['organ', o.amplitude === undefined ? 'peakToPeak' : 'amplitude'], `${amp} rad is a half stroke of π or more; give degrees as a string, e.g. '80 deg'`);
       if (o.stalk && o.stalk.outerRadius === undefined && o.stalk.outerSemiAxes === undefined) issue(['organ', 'stalk', 'outerRadius'], 'is required; give outerRadius (a tube) or outerSemiAxes [normal, in-plane] (an elliptical tube)');
       if (o.stalk?.outerRadius !== undefined && o.stalk.innerRadius !== undefined && o.stalk.innerRadius >= o.stalk.outerRadius) issue(['organ', 'stalk', 'innerRadius'], `${o.stalk.innerRadius} m is not smaller than outerRadius ${o.stalk.outerRadius} m`);
+      if (o.stalk?.outerRadius !== undefined && o.stalk.outerSemiAxes !== undefined) issue(['organ', 'stalk', 'outerSemiAxes'], 'given together with outerRadius; give one of them: outerRadius for a round tube, outerSemiAxes [normal, in-plane] for an elliptical one');
+      if (o.stalk?.innerRadius !== undefined && o.stalk.innerSemiAxes !== undefined) issue(['organ', 'stalk', 'innerSemiAxes'], 'given together with innerRadius; give one of them');
+      if (o.stalk?.outerSemiAxes !== undefined) {
+        const inner = o.stalk.innerSemiAxes ?? (o.stalk.innerRadius === undefined ? undefined : [o.stalk.innerRadius, o.stalk.innerRadius]);
+        const key = o.stalk.innerSemiAxes ? 'innerSemiAxes' : 'innerRadius';
+        inner?.forEach((b, i) => {
+          const a = o.stalk?.outerSemiAxes?.[i] ?? 0;
+          if (b >= a) issue(['organ', 'stalk', key], `${b} m is not smaller than the outer semi-axis ${a} m ${i === 0 ? 'along the normal' : 'in the stroke plane'}; expected a wall of positive thickness`);
+        });
+      }
     }
     const { pointsPerBeat, beats, harmonics } = s.sampling;
     if (pointsPerBeat * beats > LIMITS.samplesPerRequest) issue(['sampling', 'beats'], `${pointsPerBeat} points × ${beats} beats = ${pointsPerBeat * beats} samples is over the limit of ${LIMITS.samplesPerRequest} samples per request`, 'samplesPerRequest');
