@@ -26,6 +26,7 @@ import type { Vec3 } from '../vec.js';
 import { beatTable, sampleBeat, type WaveSamples } from '../waveform.js';
 import { gravitySeries, integrateAttitude, type AttitudeReport, type Quaternion, type QuaternionSeries } from './attitude.js';
 import { sampleAxis, type RateProfile } from './profiles.js';
+import { beatStrain, type StrainPlan } from './strain.js';
 
 export interface TurnPlan {
   frequency: number;
@@ -55,10 +56,14 @@ export interface TurnWorkspace {
   loadData: [Float64Array, Float64Array];
   /** One-beat views into loadData, per organ and beat. */
   beatViews: [LoadSeries[], LoadSeries[]];
+  /** Stalk strain per organ: axial, in plane, out of plane, one contiguous series each. */
+  strain: [Strain3, Strain3];
   kin: Kinematics;
   stroke: WaveSamples;
   deviation: WaveSamples;
 }
+
+export type Strain3 = [Float64Array, Float64Array, Float64Array];
 
 const f64 = (n: number) => new Float64Array(n);
 const wave = (n: number): WaveSamples => ({ s: f64(n), v: f64(n), a: f64(n) });
@@ -83,6 +88,7 @@ export function allocTurn(samples: number, pointsPerBeat: number): TurnWorkspace
     q: { w: f64(N), x: f64(N), y: f64(N), z: f64(N) },
     loadData,
     beatViews: [views(loadData[0]), views(loadData[1])],
+    strain: [[f64(N), f64(N), f64(N)], [f64(N), f64(N), f64(N)]],
     kin: allocKinematics(n),
     stroke: wave(n),
     deviation: wave(n),
@@ -102,6 +108,8 @@ export interface TurnInput {
   /** Acceleration of the reference point (m/s², body axes), held through the run. */
   acceleration: Vec3;
   mirror: boolean;
+  /** Stalk strain to compute alongside the loads (rotary organ with a stalk). */
+  strain?: StrainPlan;
 }
 
 export interface TurnRun {
@@ -111,6 +119,8 @@ export interface TurnRun {
   q: QuaternionSeries;
   /** Loads of the specified organ, then of its mirror: one LoadSeries per beat (views into the workspace). */
   organs: LoadSeries[][];
+  /** Stalk strain per organ (axial, in plane, out of plane; views of the run's length), with a stalk. */
+  strain?: Strain3[];
   /** One beat of stroke (and deviation) samples. */
   stroke: WaveSamples;
   deviation?: WaveSamples;
@@ -159,12 +169,19 @@ export function runTurn(input: TurnInput, plan: TurnPlan, ws: TurnWorkspace): Tu
   const kin = kinematics(g, stroke, deviation, ws.kin);
   const organs: LoadSeries[][] = [ws.beatViews[0].slice(0, plan.beats)];
   if (input.mirror) organs.push(ws.beatViews[1].slice(0, plan.beats));
+  const sp = input.strain;
   organs.forEach((beats, o) => {
     const motion = o === 0 ? ws.motion : ws.mirrorMotion;
-    beats.forEach((beat, b) => loads(kin, motion, g.mass, beat, 0, b * n));
+    const strain = ws.strain[o] as Strain3;
+    beats.forEach((beat, b) => {
+      loads(kin, motion, g.mass, beat, 0, b * n);
+      if (sp) beatStrain(sp, beat, kin, motion, b * n, strain, b * n);
+    });
   });
   if (input.mirror) for (const beat of organs[1] as LoadSeries[]) reflectY(beat);
-  return { plan, motion: ws.motion, ...(input.mirror ? { mirrorMotion: ws.mirrorMotion } : {}), q: ws.q, organs, stroke, ...(deviation ? { deviation } : {}), attitude };
+  const N = plan.samples;
+  const strain = sp ? organs.map((_, o) => (ws.strain[o] as Strain3).map((x) => x.subarray(0, N)) as Strain3) : undefined;
+  return { plan, motion: ws.motion, ...(input.mirror ? { mirrorMotion: ws.mirrorMotion } : {}), q: ws.q, organs, ...(strain ? { strain } : {}), stroke, ...(deviation ? { deviation } : {}), attitude };
 }
 
 /** Apply P (y → −y) to the body-axis y series of every component. */

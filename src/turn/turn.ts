@@ -16,6 +16,7 @@ import { fromEuler, toEuler, type QuaternionSeries } from './attitude.js';
 import { channelsOf, type Channel } from './channels.js';
 import { rateProfile, traceSpans, type RateProfile } from './profiles.js';
 import { beatMeans, errorOf, lagOf, trailingMean, type ErrorStats } from './readout.js';
+import { peakOf, strainPlan, STRAIN_KINDS, type StrainKind, type StrainPeak } from './strain.js';
 import { allocTurn, fits, runTurn, turnPlan, type TurnPlan, type TurnRun, type TurnWorkspace } from './run.js';
 import { decimate, decimation, describeDecimation, keptTimes, type Decimation, type Leaf } from './series.js';
 
@@ -107,8 +108,17 @@ export interface TurnAnswer {
   lag: Nullable<Rates>;
   /** Estimated − true over the beats, per axis; null where the axis is not observable. */
   error: Record<keyof Rates, ErrorStats | null>;
+  /** With a stalk: per strain, the largest magnitude over both organs and the whole run. */
+  peakStrain?: PeakStrain;
   series?: TurnSeries;
 }
+
+export type OrganPeak = StrainPeak & { side: Side; role: 'specified' | 'mirror' };
+
+export type PeakStrain = Record<StrainKind, OrganPeak> & {
+  /** Each organ's own peaks. */
+  organs: ({ side: Side; role: 'specified' | 'mirror' } & Record<StrainKind, StrainPeak>)[];
+};
 
 export type TurnResult = { ok: true; answer: TurnAnswer } | { ok: false; issues: Issue[] };
 
@@ -125,8 +135,9 @@ function workspaceFor(plan: TurnPlan): TurnWorkspace {
 
 const side = (m: Model, mirror: boolean): Side => (!mirror ? m.side : m.side === 'right' ? 'left' : m.side === 'left' ? 'right' : 'midline');
 
-/** Numbers in the series of an answer: per kept point, time and 12 body series, 42 per organ. */
-const seriesValues = (d: Decimation, organs: number): number => d.kept * (1 + 12 + organs * COMPONENTS.length * N_AXES) * (d.kind === 'envelope' ? 2 : 1);
+/** Numbers in the series of an answer: per kept point, time and 12 body series, 42 per organ (+3 strains). */
+const seriesValues = (d: Decimation, organs: number, strain: boolean): number =>
+  d.kept * (1 + 12 + organs * (COMPONENTS.length * N_AXES + (strain ? 3 : 0))) * (d.kind === 'envelope' ? 2 : 1);
 
 /** The run's plan, or the issues that refuse it (limits first: a refusal costs microseconds). */
 export function planOf(s: Scenario): { plan: TurnPlan; decimation: Decimation } | { issues: Issue[] } {
@@ -150,7 +161,7 @@ export function planOf(s: Scenario): { plan: TurnPlan; decimation: Decimation } 
     return { issues: [{ path: 'output.decimate.every', message: `${d.every} is more than the run's ${plan.samples} samples; expected every k-th sample with k ≤ ${plan.samples}` }] };
   }
   const organs = s.organ.mirror ? 2 : 1;
-  const values = seriesValues(d, organs);
+  const values = seriesValues(d, organs, s.organ.drive === 'rotary' && s.organ.stalk !== undefined);
   if (s.output.series && values > LIMITS.seriesValues) {
     const every = Math.ceil((plan.samples * (values / d.kept)) / LIMITS.seriesValues);
     return {
@@ -217,7 +228,8 @@ export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, ws: TurnW
     ? rateProfile(b.maneuver)
     : { axes: [[{ kind: 'constant', rate: b.rate.roll }], [{ kind: 'constant', rate: b.rate.pitch }], [{ kind: 'constant', rate: b.rate.yaw }]] };
   const g = b.gravity === true ? STANDARD_GRAVITY : b.gravity === false ? 0 : b.gravity;
-  const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror }, plan, ws);
+  const strain = strainPlan(s.organ, model.geometry);
+  const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror, ...(strain ? { strain } : {}) }, plan, ws);
   const path = choosePath(s, model);
   const channels = channelsOf(model, 'path' in path ? path.path : 'sampled', plan.pointsPerBeat, Math.max(1, s.sampling.harmonics));
   const integration = s.sensor?.integration ?? { beats: 10 };
@@ -267,6 +279,7 @@ export function turnOf(s: Scenario): TurnResult {
       beats: read.rows,
       lag: read.lag,
       error: read.error,
+      ...(run.strain ? { peakStrain: peakStrainOf(run, model) } : {}),
       ...(s.output.series ? { series: seriesOf(run, model, planned.decimation, ws) } : {}),
     },
   };
@@ -351,6 +364,19 @@ function readOut(run: TurnRun, channels: Channel[], window: number, threshold: n
   };
 }
 
+function peakStrainOf(run: TurnRun, model: Model): PeakStrain {
+  const { plan } = run;
+  const organs = (run.strain ?? []).map((x, o) => {
+    const peaks = Object.fromEntries(STRAIN_KINDS.map((k, i) => [k, peakOf(x[i] as Float64Array, plan.samples, plan.dt, plan.pointsPerBeat)])) as Record<StrainKind, StrainPeak>;
+    return { side: side(model, o === 1), role: (o === 1 ? 'mirror' : 'specified') as 'specified' | 'mirror', ...peaks };
+  });
+  const overall = Object.fromEntries(STRAIN_KINDS.map((k) => {
+    const best = organs.reduce((a, o) => (Math.abs(o[k].value) > Math.abs(a[k].value) ? o : a));
+    return [k, { ...best[k], side: best.side, role: best.role }];
+  })) as Record<StrainKind, OrganPeak>;
+  return { ...overall, organs };
+}
+
 /** Euler angles at every sample, into the workspace's midpoint buffers (free after the run). */
 function eulerSeries(q: QuaternionSeries, N: number, out: [Float64Array, Float64Array, Float64Array]): void {
   const [r, p, y] = out;
@@ -381,7 +407,13 @@ function seriesOf(run: TurnRun, model: Model, d: Decimation, ws: TurnWorkspace):
       });
       loads[c] = byAxis;
     });
-    return { side: side(model, i === 1), role: (i === 0 ? 'specified' : 'mirror') as 'specified' | 'mirror', loads };
+    const strain = run.strain?.[i];
+    return {
+      side: side(model, i === 1),
+      role: (i === 0 ? 'specified' : 'mirror') as 'specified' | 'mirror',
+      loads,
+      ...(strain ? { strain: { axial: dec(strain[0]), inPlane: dec(strain[1]), outOfPlane: dec(strain[2]) } } : {}),
+    };
   });
   return {
     decimate: describeDecimation(d),
