@@ -34,3 +34,4 @@ export { CH, organChannels, type Quantity, type ReadPlan, type Bias } from './de
 export { displacementTransfer, forceTransfer, senseAxisIndex, type SenseMode } from './senseMode.js';
 export { section, leverArm, strainPerLoad, type Section } from './strain.js';
 export { BOLTZMANN, thermalForcePsd, rateNoiseDensity, angleRandomWalkCoefficient, toDegreesPerRootHour } from './noise.js';
+export { sensingCsv } from './table.js';
