@@ -3,7 +3,7 @@
  * 256 points per beat (10,240 samples), both organs, all components in both frames, stalk strain
  * and the beat-by-beat read-out — target ≤ 20 ms, with the series in a workspace allocated once.
  *
- *   core         turnNumbers(s, model, plan, ws): rates, attitude, loads, strain and read-out
+ *   core         turnNumbers(s, model, plan, channels, ws): rates, attitude, loads, strain and read-out
  *                into a workspace allocated before timing (target ≤ 20 ms)
  *   answer       turnOf(scenario) with series off: the JSON-ready answer (target ≤ 20 ms)
  *   decimated    turnOf(scenario) with the example's series every 16th sample (no target)
@@ -17,6 +17,7 @@ import { allocLoads, loads } from '../src/loads.js';
 import { compile } from '../src/model.js';
 import { parseScenario, type Scenario } from '../src/scenario.js';
 import { allocTurn, runTurn } from '../src/turn/run.js';
+import { channelsOf } from '../src/turn/channels.js';
 import { planOf, turnNumbers, turnOf } from '../src/turn/turn.js';
 import type { BenchRow, Suite } from './run.js';
 
@@ -49,14 +50,17 @@ export const turnSuite: Suite = {
     if ('issues' in planned) throw new Error(JSON.stringify(planned.issues));
     const { plan } = planned;
     const ws = allocTurn(plan.samples, plan.pointsPerBeat);
+    const chosen = channelsOf(s, model);
+    if (!chosen.ok) throw new Error(JSON.stringify(chosen.issues));
+    const channels = chosen.value;
     const label = `fly-saccade · ${plan.beats} beats × ${plan.pointsPerBeat} = ${plan.samples} samples, 2 organs`;
 
-    const core = ctx.measure(() => turnNumbers(s, model, plan, ws), { batch: 0.1, batches: 11 });
+    const core = ctx.measure(() => turnNumbers(s, model, plan, channels, ws), { batch: 0.1, batches: 11 });
     const answer = ctx.measure(() => turnOf(quiet), { batch: 0.1, batches: 11 });
     const decimated = ctx.measure(() => turnOf(s), { batch: 0.1, batches: 11 });
 
     // Baseline: the loads of both organs into one long strided LoadSeries each (same kernel).
-    const run = runTurn({ geometry: model.geometry, profile: turnNumbers(s, model, plan, ws).profile, attitude: [1, 0, 0, 0], gravity: 9.80665, acceleration: [0, 0, 0], mirror: true }, plan, ws);
+    const run = runTurn({ geometry: model.geometry, profile: turnNumbers(s, model, plan, channels, ws).profile, attitude: [1, 0, 0, 0], gravity: 9.80665, acceleration: [0, 0, 0], mirror: true }, plan, ws);
     const long = [allocLoads(plan.samples), allocLoads(plan.samples)];
     const n = plan.pointsPerBeat;
     const strided = ctx.measure(() => {
@@ -76,7 +80,7 @@ export const turnSuite: Suite = {
     }, { batch: 0.1, batches: 11 });
 
     const seriesBytes = 2 * N_COMPONENTS * N_AXES * plan.samples * 8;
-    const alloc = ctx.allocation(() => turnNumbers(s, model, plan, ws), 20);
+    const alloc = ctx.allocation(() => turnNumbers(s, model, plan, channels, ws), 20);
     const rows: BenchRow[] = [
       { name: `${label} · core (run + read-out, workspace reused)`, perEval: core.perEval, target: TARGET },
       { name: `${label} · turn answer, series off`, perEval: answer.perEval, target: TARGET },

@@ -1,21 +1,28 @@
 /**
- * The lock-in channels a turn is read through (design §6, §7): every organ-frame axis of the total
- * load of each organ at every harmonic order k = 1..K, phase-locked to the rate-induced (Coriolis)
- * line. For channel c the per-unit-rate Coriolis lines Z_ci = p − iq (harmonics.ts) for the body
- * axes i = roll, pitch, yaw come from the core at unit rates (closed form where it applies); the
- * reference phase ψ_c is the phase of the largest of them, and the in-phase sensitivity is
- * H_ci = Re(Z_ci e^{−iψ_c}) (lockin.ts `lineOutputs`). A channel that no rate reaches is dropped.
+ * The lock-in channels a turn is read through (design §6, §7): exactly the channels, reference
+ * phases, noise and pair estimator of the sensing answer for the same scenario (sensing
+ * `prepareSensing`). Channel c reads organ axis b at harmonic k through the transfer T from load
+ * line to the channel's quantity (1 for a load, strain per newton for strain, the sense mode's
+ * H(kω) or G(kω) on its axis), locked to the reference ψ of its rate-induced line. Its in-phase
+ * output over a beat is read from the total load on axis b as
+ *
+ *   y = |T| · I_k(F; ψ − arg T)      (lock-in of F at order k, reference ψ − arg T)
+ *
+ * which equals Re(T Z e^{−iψ}) for a load line Z (sensing/index.ts). A sense mode is taken as
+ * quasi-steady: each beat's line passes through the steady-state transfer (its ring-up is not
+ * simulated; the answer warns).
  *
  * The read-out is calibrated on the body at rest in its initial attitude: the baseline y0_c is the
  * in-phase output of the total load at zero rate (primary, gravity, translation), so that what is
  * left is the rate-induced line plus what the turn adds besides it (centrifugal load, the change of
  * gravity with attitude, angular acceleration leaking out of quadrature within a beat).
  */
-import { axesOf, COMPONENTS, TOTAL, type Axis } from '../components.js';
-import { organNumbers, type Path } from '../forces.js';
-import { amplitudePhase, lineIndex, type HarmonicTable } from '../harmonics.js';
+import { axesOf, TOTAL, type Axis } from '../components.js';
+import { organNumbers } from '../forces.js';
+import { lineIndex } from '../harmonics.js';
 import type { Model, Motion } from '../model.js';
-import { lineOutputs } from '../sensing/index.js';
+import type { Issue, Scenario } from '../scenario.js';
+import { CH, prepareSensing, type PairAnalysis, type Quantity, type SensingPlan } from '../sensing/index.js';
 
 export interface Channel {
   /** 0: the organ as specified, 1: its mirror. */
@@ -24,50 +31,64 @@ export interface Channel {
   axis: number;
   axisName: Axis;
   order: number;
-  /** ψ_ref (rad), referred to t = 0. */
+  quantity: Quantity;
+  /** ψ (rad), referred to t = 0: the reference of the channel's rate-induced line. */
   referencePhase: number;
-  /** In-phase output per unit rate (N per rad/s) for roll, pitch, yaw. */
+  /** |T| and ψ − arg T: how the channel is read from the load series. */
+  gain: number;
+  loadPhase: number;
+  /** In-phase output per unit rate (channel unit per rad/s) for roll, pitch, yaw. */
   sensitivity: [number, number, number];
-  /** In-phase output at rest (N). */
+  /** In-phase output of the body at rest in its initial attitude (channel unit). */
   baseline: number;
 }
 
-const CORIOLIS = COMPONENTS.indexOf('coriolis');
+export interface TurnChannels {
+  channels: Channel[];
+  /** The pair analysis over the channels, in their order (sensing). */
+  pair: PairAnalysis;
+  /** Integration time of the sensor (s). */
+  integration: number;
+  sensing: SensingPlan;
+}
+
 const ZERO: [number, number, number] = [0, 0, 0];
 
-/** The channels of a model, orders 1..K, for both organs when it has a mirror. */
-export function channelsOf(model: Model, path: Path, pointsPerBeat: number, K: number, relative = 1e-9): Channel[] {
-  const organs: (0 | 1)[] = model.mirror ? [0, 1] : [0];
-  const tables = (mirror: boolean) => {
-    const at = (motion: Motion): HarmonicTable => organNumbers({ ...model, motion }, { mirror, path, pointsPerBeat, harmonics: K, series: false }).table;
-    const unit = [0, 1, 2].map((i) => at({ omega: [i === 0 ? 1 : 0, i === 1 ? 1 : 0, i === 2 ? 1 : 0], omegaDot: ZERO, accel: [0, 0, 0], gravity: [0, 0, 0] }));
-    const rest = at({ omega: [0, 0, 0], omegaDot: ZERO, accel: model.motion.accel, gravity: model.motion.gravity });
-    return { unit, rest };
-  };
-  const all: Channel[] = [];
+/** The channels of a scenario, or the issues that the sensing layer raises for it. */
+export function channelsOf(s: Scenario, model: Model): { ok: true; value: TurnChannels } | { ok: false; issues: Issue[] } {
+  const prep = prepareSensing(s, model);
+  if (!prep.ok) return prep;
+  const sp = prep.prepared;
   const names = axesOf(model.geometry.drive);
-  for (const organ of organs) {
-    const { unit, rest } = tables(organ === 1);
-    for (let b = 0; b < 3; b++) {
-      for (let k = 1; k <= K; k++) {
-        let best = 0, psi = 0;
-        for (const t of unit) {
-          const at = lineIndex(t, CORIOLIS, 3 + b, k);
-          const { amplitude, phase } = amplitudePhase(t.pq[at] as number, t.pq[at + 1] as number, k);
-          if (amplitude > best) {
-            best = amplitude;
-            psi = phase;
-          }
-        }
-        const sensitivity = unit.map((t) => {
-          const at = lineIndex(t, CORIOLIS, 3 + b, k);
-          return lineOutputs(t.pq[at] as number, t.pq[at + 1] as number, psi).inPhase;
-        }) as [number, number, number];
-        const r = lineIndex(rest, TOTAL, 3 + b, k);
-        all.push({ organ, axis: b, axisName: names[3 + b] as Axis, order: k, referencePhase: psi, sensitivity, baseline: lineOutputs(rest.pq[r] as number, rest.pq[r + 1] as number, psi).inPhase });
-      }
+  const rest = [false, true].map((mirror) => {
+    const motion: Motion = { omega: ZERO, omegaDot: ZERO, accel: model.motion.accel, gravity: model.motion.gravity };
+    return model.mirror || !mirror ? organNumbers({ ...model, motion }, { mirror, path: sp.path, pointsPerBeat: s.sampling.pointsPerBeat, harmonics: s.sampling.harmonics, series: false }).table : undefined;
+  });
+  const channels = sp.pairRows.map(({ organ, row }): Channel => {
+    const ch = sp.organs[organ]?.channels as Float64Array;
+    const at = row * CH.size;
+    const b = ch[at + CH.b] as number, k = ch[at + CH.k] as number;
+    const tr = ch[at + CH.tr] as number, ti = ch[at + CH.ti] as number, psi = ch[at + CH.psi] as number;
+    const table = rest[organ];
+    let baseline = 0;
+    if (table) {
+      const z = lineIndex(table, TOTAL, 3 + b, k);
+      const p = table.pq[z] as number, q = table.pq[z + 1] as number;
+      // W = T (p − i q); in-phase output Re(W e^{−iψ})
+      baseline = (tr * p + ti * q) * Math.cos(psi) + (ti * p - tr * q) * Math.sin(psi);
     }
-  }
-  const top = Math.max(0, ...all.map((c) => Math.max(...c.sensitivity.map(Math.abs))));
-  return all.filter((c) => Math.max(...c.sensitivity.map(Math.abs)) > relative * top);
+    return {
+      organ: organ === 1 ? 1 : 0,
+      axis: b,
+      axisName: names[3 + b] as Axis,
+      order: k,
+      quantity: sp.plan.axes[b]?.quantity ?? 'load',
+      referencePhase: psi,
+      gain: Math.hypot(tr, ti),
+      loadPhase: psi - Math.atan2(ti, tr),
+      sensitivity: [ch[at + CH.K] as number, ch[at + CH.K + 1] as number, ch[at + CH.K + 2] as number],
+      baseline,
+    };
+  });
+  return { ok: true, value: { channels, pair: sp.pair, integration: sp.plan.integration, sensing: sp } };
 }

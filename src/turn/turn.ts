@@ -6,14 +6,15 @@
  * error, the peak strain, and decimated series.
  */
 import { axesOf, COMPONENTS, N_AXES, TOTAL, type Axis, type Component } from '../components.js';
-import { choosePath, warningsFor } from '../forces.js';
+import { warningsFor } from '../forces.js';
 import { LIMITS } from '../limits.js';
 import { compile, STANDARD_GRAVITY, type Model, type Side } from '../model.js';
 import { parseScenario, type Issue, type Scenario } from '../scenario.js';
-import { analysePair, demodulate, estimateRates, outputNoise, RATE_AXES, type Demodulated, type PairAnalysis } from '../sensing/index.js';
+import { QUANTITY_UNIT } from '../sensing/detection.js';
+import { demodulate, estimateRates, RATE_AXES, type Demodulated, type PairAnalysis, type Quantity } from '../sensing/index.js';
 import { VERSION } from '../version.js';
 import { fromEuler, toEuler, type QuaternionSeries } from './attitude.js';
-import { channelsOf, type Channel } from './channels.js';
+import { channelsOf, type Channel, type TurnChannels } from './channels.js';
 import { rateProfile, traceSpans, type RateProfile } from './profiles.js';
 import { beatMeans, errorOf, lagOf, trailingMean, type ErrorStats } from './readout.js';
 import { peakOf, strainPlan, STRAIN_KINDS, type StrainKind, type StrainPeak } from './strain.js';
@@ -22,7 +23,7 @@ import { decimate, decimation, describeDecimation, keptTimes, type Decimation, t
 
 export const TURN_UNITS = {
   time: 's', rate: 'rad/s', angularAcceleration: 'rad/s^2', angle: 'rad', load: 'N', gravity: 'm/s^2',
-  lag: 's', strain: '1 (m/m)', lockIn: 'unit of the channel (N for loads, 1 for strain)',
+  lag: 's', strain: '1 (m/m)', lockIn: 'the channel\'s unit (readout.channels[].unit: N, 1 or m)',
 } as const;
 
 type Rates = { roll: number; pitch: number; yaw: number };
@@ -39,7 +40,7 @@ export interface BeatRow {
    * (rad/s); null for an axis that the channels cannot observe.
    */
   estimatedRate: Nullable<Rates>;
-  /** This beat's in-phase lock-in output of every channel (N), in the order of `readout.channels`. */
+  /** This beat's in-phase lock-in output of every channel (its unit), in the order of `readout.channels`. */
   inPhase: number[];
 }
 
@@ -48,10 +49,13 @@ export interface ChannelAnswer {
   role: 'specified' | 'mirror';
   axis: Axis;
   order: number;
+  /** What the channel reads (sensing): a load (N), strain (1) or sense-mode displacement (m). */
+  quantity: Quantity;
+  unit: string;
   referencePhase: number;
-  /** In-phase output per unit rate (N per rad/s). */
+  /** In-phase output per unit rate (channel unit per rad/s). */
   sensitivity: Rates;
-  /** In-phase output of the body at rest in its initial attitude (N), subtracted before estimating. */
+  /** In-phase output of the body at rest in its initial attitude (channel unit), subtracted before estimating. */
   baseline: number;
 }
 
@@ -64,8 +68,8 @@ export interface Readout {
   /** Rate combinations the channels cannot tell apart (see sensing). */
   confusions: string[];
   /**
-   * Spread (1σ, rad/s) of the estimated rate over a full window from the sensor's noise, per axis;
-   * present when the scenario's noise model covers the channels (sensor.readoutNoise as a force density).
+   * Spread (1σ, rad/s) of the estimated rate over a full window from the sensor's noise (sensing's
+   * pair covariance), per axis; present when the scenario has a noise model.
    */
   noise?: Nullable<Rates>;
 }
@@ -212,17 +216,15 @@ export interface TurnNumbers {
   channels: Channel[];
   /** Integration window (beats). */
   window: number;
-  /** Spread of one channel's in-phase output over the window (N); 0 without a noise model. */
-  sigma: number;
   read: ReadOutResult;
 }
 
 /**
  * Run a parsed, compiled, planned scenario into `ws` (default: a workspace kept between calls for
- * runs up to CACHED_SAMPLES samples) and read it out beat by beat. The run's series are views into
- * the workspace, valid until its next use.
+ * runs up to CACHED_SAMPLES samples) and read it out beat by beat through `channels`
+ * (`channelsOf`). The run's series are views into the workspace, valid until its next use.
  */
-export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, ws: TurnWorkspace = workspaceFor(plan)): TurnNumbers {
+export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, channels: TurnChannels, ws: TurnWorkspace = workspaceFor(plan)): TurnNumbers {
   const b = s.body;
   const profile: RateProfile = b.maneuver
     ? rateProfile(b.maneuver)
@@ -230,13 +232,9 @@ export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, ws: TurnW
   const g = b.gravity === true ? STANDARD_GRAVITY : b.gravity === false ? 0 : b.gravity;
   const strain = strainPlan(s.organ, model.geometry);
   const run = runTurn({ geometry: model.geometry, profile, attitude: fromEuler(b.attitude), gravity: g, acceleration: b.acceleration, mirror: model.mirror, ...(strain ? { strain } : {}) }, plan, ws);
-  const path = choosePath(s, model);
-  const channels = channelsOf(model, 'path' in path ? path.path : 'sampled', plan.pointsPerBeat, Math.max(1, s.sampling.harmonics));
-  const integration = s.sensor?.integration ?? { beats: 10 };
-  const window = Math.max(1, typeof integration === 'number' ? Math.round(integration * plan.frequency) : integration.beats);
-  const sigma = channelSigma(s, window / plan.frequency);
-  const read = readOut(run, channels, window, s.sensor?.threshold ?? 1, sigma);
-  return { plan, profile, run, channels, window, sigma, read };
+  const window = Math.max(1, Math.round(channels.integration * plan.frequency));
+  const read = readOut(run, channels.channels, channels.pair, window);
+  return { plan, profile, run, channels: channels.channels, window, read };
 }
 
 /** The turn answer for a parsed scenario. */
@@ -247,14 +245,19 @@ export function turnOf(s: Scenario): TurnResult {
   const compiled = compile(s);
   if (!compiled.ok) return compiled;
   const model = compiled.model;
+  const chosen = channelsOf(s, model);
+  if (!chosen.ok) return chosen;
   const ws = workspaceFor(plan);
-  const { profile, run, channels, window, sigma, read } = turnNumbers(s, model, plan, ws);
+  const { profile, run, channels, window, read } = turnNumbers(s, model, plan, chosen.value, ws);
   const b = s.body;
   const warnings = turnWarnings(s, model, plan, profile);
   if (window > plan.beats) warnings.push(`the integration window (${window} beats) is longer than the run (${plan.beats} beats); every estimate averages fewer beats than the window`);
   for (const c of read.analysis.confusions) warnings.push(c.message);
-  const rn = s.sensor?.readoutNoise;
-  if (rn && rn.dimension !== 'forceDensity') warnings.push('sensor.readoutNoise is given in strain or displacement units; the turn reads the load channels, so the estimator runs unweighted and no rate noise is reported');
+  if (!read.analysis.weighted) warnings.push('no noise model (sensor.readoutNoise, or organ.senseMode for thermal noise): the estimator runs unweighted and readout.noise is absent');
+  const sm = chosen.value.sensing.plan.senseMode;
+  if (sm) warnings.push(`the sense mode is taken as quasi-steady: each beat's line passes through its steady-state response; its ring-up (time constant Q/(π f_s) = ${(sm.quality / (Math.PI * sm.frequency)).toPrecision(3)} s) is not simulated and would add to the lag`);
+  const beatsPerIntegration = chosen.value.integration * plan.frequency;
+  if (Math.abs(beatsPerIntegration - window) > 1e-9 * window) warnings.push(`sensor.integration is ${beatsPerIntegration.toPrecision(4)} beats; the turn's lock-in averages whole beats, ${window} of them`);
   const last = plan.samples - 1;
   const q = run.q;
   return {
@@ -269,12 +272,12 @@ export function turnOf(s: Scenario): TurnResult {
       readout: {
         window: { beats: window, time: window / plan.frequency },
         channels: channels.map((c) => ({
-          side: side(model, c.organ === 1), role: c.organ === 1 ? 'mirror' : 'specified', axis: c.axisName, order: c.order, referencePhase: c.referencePhase,
-          sensitivity: { roll: c.sensitivity[0], pitch: c.sensitivity[1], yaw: c.sensitivity[2] }, baseline: c.baseline,
+          side: side(model, c.organ === 1), role: c.organ === 1 ? 'mirror' : 'specified', axis: c.axisName, order: c.order, quantity: c.quantity, unit: QUANTITY_UNIT[c.quantity],
+          referencePhase: c.referencePhase, sensitivity: { roll: c.sensitivity[0], pitch: c.sensitivity[1], yaw: c.sensitivity[2] }, baseline: c.baseline,
         })),
         conditionNumber: read.analysis.conditionNumber,
         confusions: read.analysis.confusions.map((c) => c.message),
-        ...(sigma > 0 ? { noise: noiseOf(read.analysis) } : {}),
+        ...(read.analysis.weighted ? { noise: noiseOf(read.analysis) } : {}),
       },
       beats: read.rows,
       lag: read.lag,
@@ -283,16 +286,6 @@ export function turnOf(s: Scenario): TurnResult {
       ...(s.output.series ? { series: seriesOf(run, model, planned.decimation, ws) } : {}),
     },
   };
-}
-
-/**
- * Spread of one channel's in-phase output over a window of T seconds: σ = √(S/T) for the one-sided
- * white readout noise S = ρ² of a force density ρ (sensing, lockin.ts). 0 when the scenario has no
- * force-density readout noise (the estimator then runs unweighted and no noise is reported).
- */
-function channelSigma(s: Scenario, time: number): number {
-  const r = s.sensor?.readoutNoise;
-  return r && r.dimension === 'forceDensity' && r.value > 0 ? outputNoise(r.value * r.value, time) : 0;
 }
 
 function noiseOf(a: PairAnalysis): Nullable<Rates> {
@@ -317,10 +310,9 @@ const one: Demodulated = { inPhase: new Float64Array(1), quadrature: new Float64
  * baseline removed, averaged over the trailing window and turned into rates by the pair's
  * least-squares estimator; against them the true rates averaged over each beat.
  */
-function readOut(run: TurnRun, channels: Channel[], window: number, threshold: number, sigma: number): ReadOutResult {
+function readOut(run: TurnRun, channels: Channel[], analysis: PairAnalysis, window: number): ReadOutResult {
   const { plan, motion } = run;
   const n = plan.pointsPerBeat, B = plan.beats, C = channels.length;
-  const analysis = analysePair(channels.map((c) => ({ sensitivity: c.sensitivity, sigma })), { threshold });
   const y = new Float64Array(C * B), ybar = new Float64Array(C * B);
   channels.forEach((c, ci) => {
     const beats = run.organs[c.organ] ?? [];
@@ -328,8 +320,8 @@ function readOut(run: TurnRun, channels: Channel[], window: number, threshold: n
     for (let b = 0; b < B; b++) {
       const beat = beats[b];
       if (!beat) continue;
-      demodulate(beat.data, { order: c.order, pointsPerBeat: n, referencePhase: c.referencePhase, firstSample: b * n, start, beats: 1 }, one);
-      y[ci * B + b] = (one.inPhase[0] as number) - c.baseline;
+      demodulate(beat.data, { order: c.order, pointsPerBeat: n, referencePhase: c.loadPhase, firstSample: b * n, start, beats: 1 }, one);
+      y[ci * B + b] = c.gain * (one.inPhase[0] as number) - c.baseline;
     }
     trailingMean(y.subarray(ci * B, (ci + 1) * B), window, B, ybar.subarray(ci * B, (ci + 1) * B));
   });
