@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { TOTAL } from '../../src/components.js';
 import { organNumbers } from '../../src/forces.js';
@@ -97,5 +98,42 @@ describe('turn(doc) read-out over a maneuver', () => {
     const a = answer({ organ, body: { maneuver: { duration: '200 ms', yaw: { pulse: { peak: '1500 deg/s', duration: '60 ms', start: '40 ms' } } } }, sampling: { pointsPerBeat: 64, harmonics: 4 }, sensor: { ...sensor, integration: '10 ms' }, output: { series: false } });
     expect(a.readout.window.beats).toBe(2);
     expect(Math.abs((a.lag.yaw as number) * 200 - 0.5)).toBeLessThan(0.1);
+  });
+});
+
+describe('turn(doc) read-out through a sense mode (displacement channels)', () => {
+  const doc = JSON.parse(readFileSync(new URL('../../examples/mems-sensing.json', import.meta.url), 'utf8'));
+  doc.sampling = { pointsPerBeat: 64, beats: 6, harmonics: 3 };
+  doc.sensor = { ...doc.sensor, integration: { beats: 3 } };
+  const a = answer(doc);
+
+  it('reads each beat as the steady-state sense displacement Re(H(kω) Z e^{−iψ}) of the core\'s load line', () => {
+    const p = parseScenario(doc);
+    const c = p.ok ? compile(p.scenario) : undefined;
+    if (!c?.ok || !p.ok) throw new Error('setup');
+    const sm = p.scenario.organ.senseMode;
+    if (!sm) throw new Error('no sense mode');
+    expect(a.readout.channels.every((ch) => ch.quantity === 'displacement' && ch.axis === 'sense')).toBe(true);
+    const tables = [false, true].map((mirror) => organNumbers(c.model, { mirror, path: 'closed-form', pointsPerBeat: 64, harmonics: 3, series: false }).table);
+    a.readout.channels.forEach((ch, i) => {
+      const t = tables[ch.role === 'mirror' ? 1 : 0];
+      if (!t) throw new Error('table');
+      const at = lineIndex(t, TOTAL, 4, ch.order);
+      // H(ω) = 1 / (m (ω_s² − ω² + i ω ω_s / Q)), the damped oscillator (any mechanics textbook)
+      const w = 2 * Math.PI * 15e3 * ch.order, ws = 2 * Math.PI * sm.frequency;
+      const re = ws * ws - w * w, im = (w * ws) / sm.quality, den = sm.mass * (re * re + im * im);
+      const hr = re / den, hi = -im / den;
+      const p0 = t.pq[at] as number, q0 = t.pq[at + 1] as number; // Z = p − i q
+      const xr = hr * p0 + hi * q0, xi = hi * p0 - hr * q0; // H Z
+      const expected = xr * Math.cos(ch.referencePhase) + xi * Math.sin(ch.referencePhase);
+      for (const row of a.beats) expect(Math.abs((row.inPhase[i] as number) - expected)).toBeLessThan(1e-9 * Math.abs(expected) + 1e-30);
+    });
+  });
+
+  it('gives the steady yaw rate back and names the axes it cannot see', () => {
+    for (const row of a.beats) expect(row.estimatedRate.yaw).toBeCloseTo((10 * Math.PI) / 180, 8);
+    expect(a.beats[0]?.estimatedRate.roll).toBeNull();
+    expect(a.readout.confusions.join(' ')).toMatch(/roll/);
+    expect(a.warnings.some((w) => w.includes('quasi-steady'))).toBe(true);
   });
 });
