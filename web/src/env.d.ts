@@ -1,0 +1,3 @@
+/** Build-time constants and asset imports that esbuild resolves. */
+declare const __BEATFORCE_VERSION__: string;
+declare module '*.css';
