@@ -77,6 +77,13 @@ export function compile(s: Scenario): CompileResult {
   const issues: Issue[] = [];
   const st = strokeWave(o.waveform, { amplitude: o.amplitude, peakToPeak: o.peakToPeak, mean: o.mean, frequency: o.frequency });
   if (st.error) issues.push({ path: 'organ.waveform.samples', message: st.error });
+  if (o.drive === 'rotary' && !st.error && st.wave.kind === 'series') {
+    // A hinged beam cannot swing a full turn; a series that adds up to more is a unit slip or a
+    // fit gone wild, and would send the aliasing estimate (Bessel orders ~ swing) out of bounds.
+    let swing = 0;
+    for (let k = 0; k < st.wave.cos.length; k++) swing += Math.hypot(st.wave.cos[k] as number, st.wave.sin[k] as number);
+    if (!(swing < 2 * Math.PI)) issues.push({ path: 'organ.waveform', message: `the stroke's harmonics add up to ${swing.toPrecision(3)} rad, more than a full turn; expected a stroke within ±π (give angles as strings in degrees, or check samples.angleUnit)` });
+  }
   let deviation: Wave | undefined;
   let deviationFit: FitReport | undefined;
   let geometry: Geometry;
