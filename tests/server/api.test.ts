@@ -206,6 +206,17 @@ describe('POST /api/v1/forces', () => {
     expect((none.json() as { issues: unknown }).issues).toEqual([{ path: '(document)', message: 'nothing is not a scenario; expected a JSON object with at least "organ"' }]);
   });
 
+  it('refuses documents that once made the core throw (found by the fuzz test) with 400, not 500', async () => {
+    const nullOrgan = await post('/api/v1/forces', { organ: null });
+    expect(nullOrgan.statusCode).toBe(400);
+    expect((nullOrgan.json() as { issues: unknown }).issues).toEqual([{ path: 'organ', message: 'null is not an organ; expected an object' }]);
+    const measured = example('measured-stroke') as { organ: { waveform: { samples: { angle: number[] } } } };
+    measured.organ.waveform.samples.angle[0] = 1e308;
+    const wild = await post('/api/v1/forces', measured);
+    expect(wild.statusCode).toBe(400);
+    expect((wild.json() as { issues: unknown }).issues).toEqual([{ path: 'organ.waveform', message: "the stroke's harmonics add up to 2.22e+305 rad, more than a full turn; expected a stroke within ±π (give angles as strings in degrees, or check samples.angleUnit)" }]);
+  });
+
   it('refuses an unknown format or query parameter with 400 naming the parameter', async () => {
     const r = await post('/api/v1/forces?format=xml&colour=red', fly);
     expect(r.statusCode).toBe(400);
