@@ -82,10 +82,10 @@ export const turnSuite: Suite = {
     const seriesBytes = 2 * N_COMPONENTS * N_AXES * plan.samples * 8;
     const alloc = ctx.allocation(() => turnNumbers(s, model, plan, channels, ws), 20);
     const rows: BenchRow[] = [
-      { name: `${label} · core (run + read-out, workspace reused)`, perEval: core.perEval, target: TARGET },
-      { name: `${label} · turn answer, series off`, perEval: answer.perEval, target: TARGET },
-      { name: `${label} · turn answer, series every 16th sample`, perEval: decimated.perEval, note: 'no target: building the JSON-ready series' },
-      { name: 'loads of both organs, beat-major blocks', perEval: blocked.perEval, baseline: { name: 'one long strided series', perEval: strided.perEval } },
+      { name: `${label} · core (run + read-out, workspace reused)`, perEval: core.perEval, wall: core.wall, target: TARGET },
+      { name: `${label} · turn answer, series off`, perEval: answer.perEval, wall: answer.wall, target: TARGET },
+      { name: `${label} · turn answer, series every 16th sample`, perEval: decimated.perEval, wall: decimated.wall, note: 'no target: building the JSON-ready series' },
+      { name: 'loads of both organs, beat-major blocks', perEval: blocked.perEval, wall: blocked.wall, baseline: { name: 'one long strided series', perEval: strided.perEval } },
       {
         name: 'allocation · core with the workspace reused',
         pass: alloc.collections === 0 ? alloc.bytesPerCall < 0.05 * seriesBytes : undefined,
