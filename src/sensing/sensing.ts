@@ -389,11 +389,6 @@ export function lineOf(w: readonly [number, number], k: number): { amplitude: nu
   return { amplitude, phase: phase <= -Math.PI ? Math.PI : phase };
 }
 
-function strainLine(axis: StrainAxis, order: number, w: [number, number]): StrainLine {
-  const { amplitude, phase } = lineOf(w, order);
-  return { axis, order, amplitude, phase };
-}
-
 function senseLine(order: number, w: [number, number]): SenseLine {
   const { amplitude, phase } = lineOf(w, order);
   return { order, amplitude, phase };
@@ -432,7 +427,7 @@ function axisAnswer(P: SensingPlan, o: PreparedOrgan, i: number): AxisSensing {
 }
 
 /** Strain transfer on organ axis b at order k: strain per newton, through G(kω) on the sense axis. */
-function strainTransfer(P: SensingPlan, b: number, k: number): [number, number] {
+function strainTransfer(P: SensingPlan, b: number, k: number): readonly [number, number] {
   const st = P.stalk as StalkInfo;
   const g = st.perLoad[b] as number;
   const sm = P.plan.senseMode;
@@ -460,24 +455,40 @@ function synthesise(W: [number, number][], n: number, beats: number): number[] {
 
 const timeAxis = (n: number, beats: number, f: number): number[] => Array.from({ length: n * beats }, (_, j) => j / (n * f));
 
+/** A line W = re + i·im as a StrainLine (convention of `lineOf`). */
+function strainLine(axis: StrainAxis, order: number, re: number, im: number): StrainLine {
+  if (order === 0) {
+    const { amplitude, phase } = lineOf([re, im], 0);
+    return { axis, order, amplitude, phase };
+  }
+  const amplitude = Math.sqrt(re * re + im * im);
+  const phase = amplitude === 0 ? 0 : Math.atan2(im, re) + 0;
+  return { axis, order, amplitude, phase: phase <= -Math.PI ? Math.PI : phase };
+}
+
 function strainAnswer(P: SensingPlan, o: PreparedOrgan): StrainAnswer {
   const st = P.stalk as StalkInfo;
-  const K1 = o.lines.orders, omega = P.model.motion.omega;
+  const K1 = o.lines.orders, omega = P.model.motion.omega, d = o.lines.data;
   const harmonics: StrainLine[] = [], rateInduced: StrainLine[] = [];
   const dynamicAxis = P.plan.senseMode ? (STRAIN_AXES[senseAxisIndex('rotary')] as StrainAxis) : null;
+  const w0 = omega[0] as number, w1 = omega[1] as number, w2 = omega[2] as number;
   for (let b = 0; b < 3; b++) {
     const axis = STRAIN_AXES[b] as StrainAxis;
     for (let k = 0; k < K1; k++) {
       const [tr, ti] = strainTransfer(P, b, k);
-      const [tp, tq] = totalLine(o.lines, omega, b, k);
-      let rp = 0, rq = 0;
-      for (let i = 0; i < 3; i++) {
-        const at = unitAt(o.lines, BLOCK.coriolis, i, b, k);
-        rp += (omega[i] as number) * (o.lines.data[at] as number);
-        rq += (omega[i] as number) * (o.lines.data[at + 1] as number);
+      let tp = 0, tq = 0;
+      for (const block of RATE_FREE) {
+        const at = axisAt(o.lines, block, b, k);
+        tp += d[at] as number;
+        tq += d[at + 1] as number;
       }
-      harmonics.push(strainLine(axis, k, throughPQ(tp, tq, tr, ti)));
-      rateInduced.push(strainLine(axis, k, throughPQ(rp, rq, tr, ti)));
+      const c0 = unitAt(o.lines, BLOCK.coriolis, 0, b, k), c1 = unitAt(o.lines, BLOCK.coriolis, 1, b, k), c2 = unitAt(o.lines, BLOCK.coriolis, 2, b, k);
+      const rp = w0 * (d[c0] as number) + w1 * (d[c1] as number) + w2 * (d[c2] as number);
+      const rq = w0 * (d[c0 + 1] as number) + w1 * (d[c1 + 1] as number) + w2 * (d[c2 + 1] as number);
+      tp += rp;
+      tq += rq;
+      harmonics.push(strainLine(axis, k, tr * tp + ti * tq, ti * tp - tr * tq));
+      rateInduced.push(strainLine(axis, k, tr * rp + ti * rq, ti * rp - tr * rq));
     }
   }
   const answer: StrainAnswer = {

@@ -1,6 +1,6 @@
-import { Matrix, inverse } from 'ml-matrix';
+import { Matrix, SVD, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { analysePair, estimateRates, type PairRow } from '../../src/sensing/pair.js';
+import { analysePair, estimateRates, estimatorGain, jacobiSvd3, type PairRow } from '../../src/sensing/pair.js';
 import { normalSource } from './random.js';
 
 const rows = (H: number[][], sigma: number[]): PairRow[] => H.map((h, i) => ({ sensitivity: h as [number, number, number], sigma: sigma[i] as number }));
@@ -69,5 +69,48 @@ describe('analysePair(rows)', () => {
     expect(a.weighted).toBe(false);
     expect(a.minimumRate.roll).toBeNull();
     expect(Array.from(estimateRates(a, [1, 2, 3]))).toEqual([1, 2, 3].map((v) => expect.closeTo(v, 12)));
+  });
+});
+
+describe('jacobiSvd3(A) against ml-matrix SVD (reference library)', () => {
+  const rnd = normalSource(11);
+  const cases: [string, number[][]][] = [
+    ['random', [[rnd(), rnd(), rnd()], [rnd(), rnd(), rnd()], [rnd(), rnd(), rnd()]]],
+    ['rank 2', [[1, 2, 3], [2, 4, 6], [0, 1, -1]]],
+    ['rank 1', [[1, 0, 2], [3, 0, 6], [-1, 0, -2]]],
+    ['graded 1e-9', [[1, 0, 0], [0, 1e-4, 0], [0.3, 0.2, 1e-9]]],
+    ['zero', [[0, 0, 0], [0, 0, 0], [0, 0, 0]]],
+  ];
+  it.each(cases)('%s: singular values and right singular vectors agree', (_name, M) => {
+    const A = M.flat(), V = new Array<number>(9).fill(0), sv = [0, 0, 0];
+    jacobiSvd3(A, V, sv);
+    const ref = new SVD(new Matrix(M), { autoTranspose: false });
+    const mine = [...sv].sort((a, b) => b - a);
+    const theirs = [...ref.diagonal].map(Math.abs).sort((a, b) => b - a);
+    const top = Math.max(theirs[0] ?? 0, 1e-300);
+    for (let j = 0; j < 3; j++) expect(Math.abs((mine[j] as number) - (theirs[j] as number))).toBeLessThan(1e-13 * top);
+    // Each right singular vector v_j satisfies ‖M v_j‖ = s_j and V is orthogonal.
+    const Mm = new Matrix(M);
+    for (let j = 0; j < 3; j++) {
+      const v = Matrix.columnVector([V[j] as number, V[3 + j] as number, V[6 + j] as number]);
+      expect(Math.abs(Mm.mmul(v).norm() - (sv[j] as number))).toBeLessThan(1e-13 * top + 1e-300);
+      for (let i = 0; i < 3; i++) {
+        const dotv = (V[i] as number) * (V[j] as number) + (V[3 + i] as number) * (V[3 + j] as number) + (V[6 + i] as number) * (V[6 + j] as number);
+        expect(dotv).toBeCloseTo(i === j ? 1 : 0, 13);
+      }
+    }
+    expect(analysePair(M.map((h) => ({ sensitivity: h as [number, number, number], sigma: 1 }))).singularValues[0]).toBeCloseTo(theirs[0] as number, 12);
+  });
+});
+
+describe('estimatorGain(analysis)', () => {
+  it('gives the same estimate as estimateRates', () => {
+    const rnd = normalSource(21);
+    const rows2 = Array.from({ length: 7 }, () => ({ sensitivity: [rnd(), rnd(), rnd()] as [number, number, number], sigma: 0.3 + Math.abs(rnd()) }));
+    const a = analysePair(rows2);
+    const G = estimatorGain(a);
+    const y = rows2.map(() => rnd());
+    const e = estimateRates(a, y);
+    for (let r = 0; r < 3; r++) expect(y.reduce((s, v, i) => s + (G[r * 7 + i] as number) * v, 0)).toBeCloseTo(e[r] as number, 12);
   });
 });
