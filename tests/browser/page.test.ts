@@ -150,9 +150,14 @@ async function expectTurnMatches(doc: Json): Promise<void> {
   });
   expect(rates.labels.filter((l) => l.startsWith('true')).length).toBeGreaterThan(0);
   const strain = turn.body.series?.organs.find((o) => o.role === 'specified')?.strain;
-  const trace = p['turn-trace'] as PlotRecord;
-  expectClose(trace.data[0] as number[], (turn.body.series?.time ?? []).map((t) => t * 1e3));
-  if (strain) expectClose(trace.data[trace.labels.indexOf('out of plane strain')] as number[], strain.outOfPlane as number[]);
+  const time = (turn.body.series?.time ?? []).map((t) => t * 1e3);
+  if (strain) {
+    for (const kind of ['outOfPlane', 'inPlane', 'axial']) {
+      const trace = p[`turn-strain-${kind}`] as PlotRecord;
+      expectClose(trace.data[0] as number[], time);
+      expectClose(trace.data[1] as number[], strain[kind] as number[]);
+    }
+  } else expectClose((p['turn-load'] as PlotRecord).data[0] as number[], time);
 }
 
 beforeAll(async () => {

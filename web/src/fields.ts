@@ -180,7 +180,7 @@ const strokeField: Field = {
 };
 
 const strokeKindField: Field = {
-  id: 'organ-stroke-kind', kind: 'select', label: 'stroke is', paths: [],
+  id: 'organ-stroke-kind', kind: 'select', label: 'stroke given as', paths: [],
   options: [{ value: 'amplitude', label: 'half stroke (±)' }, { value: 'peakToPeak', label: 'peak to peak' }],
   show: periodic,
   read: (d) => (getAt(d, ['organ', 'peakToPeak']) !== undefined ? 'peakToPeak' : 'amplitude'),

@@ -8,7 +8,7 @@ import { getAt } from './doc.js';
 import { byId, h } from './dom.js';
 import { Editor } from './editor.js';
 import { curlRequest, download, pythonRequest } from './exporting.js';
-import { eng } from './format.js';
+import { eng, RAD_TO_DEG } from './format.js';
 import { plotRecords, resizePlots } from './plots/base.js';
 import { drawLoads } from './plots/loads.js';
 import { drawSpectrum } from './plots/spectrum.js';
@@ -164,6 +164,8 @@ function summaryRow(label: string, value: string, cls = ''): HTMLElement {
   return h('div', { class: `readout ${cls}` }, h('dt', {}, label), h('dd', {}, value));
 }
 
+const rateText = (r: number | null | undefined): string => (typeof r === 'number' && Number.isFinite(r) ? eng(r * RAD_TO_DEG, 'deg/s') : '–');
+
 function drawSummary(): void {
   const a = bench.answers.forces;
   if (!a) return;
@@ -172,17 +174,22 @@ function drawSummary(): void {
   const p = biggest('primary'), c = biggest('coriolis');
   const rows: HTMLElement[] = [
     summaryRow('largest primary line', p ? `${eng(p.amplitude, 'N')} (${p.axis}, k = ${p.order})` : '–'),
-    summaryRow('largest Coriolis line', c && c.amplitude > 0 ? `${eng(c.amplitude, 'N')} (${c.axis}, k = ${c.order})` : 'none (no body rate)', 'coriolis'),
-    summaryRow('computed by', `${a.path} path`),
+    summaryRow('largest Coriolis line', c && c.amplitude > 0 ? `${eng(c.amplitude, 'N')} (${c.axis}, k = ${c.order})` : 'none (no steady body rate)', 'coriolis'),
+    summaryRow('lines computed by', `the ${a.path} path`),
   ];
+  const parts: HTMLElement[] = [h('dl', { class: 'readouts' }, ...rows)];
   const s = bench.answers.sensing;
-  if (s?.pair) {
-    for (const ax of ['roll', 'pitch', 'yaw'] as const) {
-      const m = (s.pair[ax] as { minimumRate?: number | null } | undefined)?.minimumRate;
-      if (m !== undefined) rows.push(summaryRow(`pair: smallest ${ax} rate`, typeof m === 'number' && Number.isFinite(m) ? `${eng((m * 180) / Math.PI, 'deg/s')}` : 'not detectable'));
-    }
+  const so = s?.organs.find((o) => o.role === 'specified') ?? s?.organs[0];
+  if (s && so) {
+    const head = h('tr', {}, h('th', { scope: 'col' }, 'axis'), h('th', { scope: 'col' }, 'best line'), h('th', { scope: 'col' }, 'organ'), h('th', { scope: 'col' }, 'pair'));
+    const body = BODY_AXES.map((ax) => {
+      const one = so.axes[ax];
+      return h('tr', {}, h('th', { scope: 'row' }, ax), h('td', {}, one?.channel ? `${one.channel.axis} k=${one.channel.order}` : '–'), h('td', {}, rateText(one?.minimumRate)), h('td', {}, rateText(s.pair?.[ax]?.minimumRate)));
+    });
+    const read = so.read ? `${so.read.quantity} (${so.read.unit})` : '';
+    parts.push(h('table', { class: 'min-rates' }, h('caption', {}, `smallest detectable rate${read ? ` · reading ${read}` : ''}`), h('thead', {}, head), h('tbody', {}, ...body)));
   }
-  ui.summary.replaceChildren(h('dl', { class: 'readouts' }, ...rows));
+  ui.summary.replaceChildren(...parts);
 }
 
 function showBanner(kind: 'error' | 'warning' | '', lines: string[]): void {
@@ -210,6 +217,7 @@ async function run(): Promise<void> {
   bench.answers.forces = f.answer;
   editor.clearIssues();
   drawForces(f.answer);
+  if (hasManeuver(doc)) ui.loadsNote.prepend('These beats are at the steady rate of body.rate; the maneuver is drawn under Maneuver. ');
   if (bench.firstRenderMs === undefined) bench.firstRenderMs = performance.now() - t0;
   const warnings = f.answer.warnings.map((w) => `Warning: ${w}`);
   showBanner(warnings.length ? 'warning' : '', warnings);
@@ -246,7 +254,7 @@ async function run(): Promise<void> {
     });
   }
   bench.answers.sweeps = sweeps;
-  drawDetection(ui.detection, ui.detectionNote, bench.answers.sensing, sweeps, problems);
+  drawDetection(ui.detection, ui.detectionNote, bench.answers.sensing, sweeps, problems, () => editor.patch(['sensor'], { readoutNoise: '2e-10 N / Hz^0.5', integration: '20 ms', threshold: 1 }));
   ui.turnCard.hidden = !turn;
   bench.answers.turn = turn?.ok ? turn.answer : undefined;
   if (turn) {
@@ -287,9 +295,10 @@ function done(): void {
 interface ExampleList { examples: { name: string; description: string }[] }
 const descriptions = new Map<string, string>();
 
-async function loadExample(name: string): Promise<Doc | undefined> {
+async function loadExample(name: string, quiet = false): Promise<Doc | undefined> {
   const r = await get<Doc>(`examples/${encodeURIComponent(name)}`);
   if (!r.ok) {
+    if (quiet) return undefined;
     showBanner('error', [`Could not load the example ${name}: ${r.error}`]);
     return undefined;
   }
@@ -297,17 +306,18 @@ async function loadExample(name: string): Promise<Doc | undefined> {
 }
 
 async function start(): Promise<void> {
-  const list = await get<ExampleList>('examples');
+  // The list, the default example and the address are read at the same time.
+  const [list, fallbackDoc, fromAddress] = await Promise.all([get<ExampleList>('examples'), loadExample(DEFAULT_EXAMPLE, true), readHash()]);
   const examples = list.ok ? list.answer.examples : [];
   ui.example.replaceChildren(h('option', { value: '' }, examples.length ? '— pick an example —' : 'no examples'), ...examples.map((e) => h('option', { value: e.name }, e.name)));
   for (const e of examples) descriptions.set(e.name, e.description);
-  const { doc: fromHash, view } = await readHash();
+  const { doc: fromHash, view } = fromAddress;
   if (view.organ) ui.organ.value = view.organ;
   let doc = fromHash ?? loadLocal();
   if (!doc) {
-    const name = examples.some((e) => e.name === DEFAULT_EXAMPLE) ? DEFAULT_EXAMPLE : examples[0]?.name;
-    doc = (name ? await loadExample(name) : undefined) ?? FALLBACK;
-    if (name) ui.example.value = name;
+    const first = examples[0]?.name;
+    doc = fallbackDoc ?? (first ? await loadExample(first) : undefined) ?? FALLBACK;
+    ui.example.value = fallbackDoc ? DEFAULT_EXAMPLE : (first ?? '');
   }
   syncAxes(getAt(doc, ['organ', 'drive']) === 'linear' ? 'linear' : 'rotary', view.axis);
   ui.exampleNote.textContent = typeof doc.description === 'string' ? doc.description : '';

@@ -54,7 +54,7 @@ function camera(view: ViewName): { right: Vec3; up: Vec3; toward: Vec3 } {
 export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName): void {
   const cam = camera(view);
   const extent = Math.max(g.arm || 0, ...g.organs.map((o) => Math.hypot(...o.hinge) + (g.drive === 'rotary' ? g.arm : 0))) || 1e-3;
-  const unit = 100 / extent; // 1 extent → 100 px
+  const unit = 118 / extent; // 1 extent → 118 px
   const P = (p: Vec3): [number, number] => [dot(p, cam.right) * unit, -dot(p, cam.up) * unit];
   const pts = (list: Vec3[]) => list.map((p) => P(p).map((v) => v.toFixed(1)).join(',')).join(' ');
   const items: { depth: number; el: SVGElement }[] = [];
@@ -66,7 +66,7 @@ export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName
     return [0.75 * extent * Math.cos(t), 0.32 * extent * Math.sin(t), 0];
   });
   add3(-1e9, s('polygon', { points: pts(body), class: 'sk-body' }));
-  const axisLen = 1.15 * extent;
+  const axisLen = 1.1 * extent;
   for (const [v, name, cls] of [[[1, 0, 0], 'x fwd', 'sk-ax-x'], [[0, 1, 0], 'y right', 'sk-ax-y'], [[0, 0, 1], 'z down', 'sk-ax-z']] as [Vec3, string, string][]) {
     const [x1, y1] = P([0, 0, 0]);
     const [x2, y2] = P(mul(v, axisLen));
@@ -93,6 +93,7 @@ export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName
         ...(sweep.length ? [s('polygon', { points: pts(sweep), class: 'sk-sweep' })] : []),
         s('line', { x1: hx, y1: hy, x2: tx, y2: ty, class: 'sk-arm' }),
         s('circle', { cx: tx, cy: ty, r: 4.5, class: 'sk-mass' }),
+        s('text', { x: tx, y: ty - 8, class: 'sk-side', 'text-anchor': 'middle' }, o.side),
         s('line', { x1: hx, y1: hy, x2: nx, y2: ny, class: 'sk-normal', 'marker-end': 'url(#sk-arrow-n)' }),
         s('text', { x: lx, y: ly, class: 'sk-label' }, 'n'),
         s('circle', { cx: hx, cy: hy, r: 2.5, class: 'sk-hinge' }),
@@ -108,6 +109,7 @@ export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName
         s('line', { x1: hx, y1: hy, x2: sx, y2: sy, class: 'sk-normal', 'marker-end': 'url(#sk-arrow-n)' }),
         s('text', { x: lx, y: ly, class: 'sk-label' }, 's'),
         s('rect', { x: hx - 5, y: hy - 5, width: 10, height: 10, class: 'sk-mass' }),
+        s('text', { x: hx, y: hy - 9, class: 'sk-side', 'text-anchor': 'middle' }, o.side),
       ));
     }
   }

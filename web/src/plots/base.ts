@@ -89,18 +89,24 @@ export const stems: uPlot.Series.PathBuilder = (u, seriesIdx, idx0, idx1) => {
 /** Axis tick labels with SI prefixes ("10 nN"). */
 export const engTicks = (unit: string) => (_u: uPlot, splits: number[]) => splits.map((v) => (v === null || v === undefined ? '' : eng(v, unit, 2)));
 
-/** Log-axis labels at whole decades, thinned so that at most about five show. */
+/** Log-axis labels at whole decades, thinned from the lowest one so that at most about five show. */
 export const decadeTicks = (unit: string) => (_u: uPlot, splits: number[]) => {
-  const decades = splits.filter((v) => v > 0).map((v) => Math.log10(v)).filter((l) => Math.abs(l - Math.round(l)) < 1e-6).map(Math.round);
-  const span = decades.length ? Math.max(...decades) - Math.min(...decades) : 0;
-  const step = Math.max(1, Math.ceil(span / 4));
-  return splits.map((v) => {
-    if (!(v > 0)) return '';
+  const decade = (v: number): number | undefined => {
+    if (!(v > 0)) return undefined;
     const l = Math.log10(v);
-    const r = Math.round(l);
-    return Math.abs(l - r) < 1e-6 && r % step === 0 ? eng(v, unit, 1) : '';
+    return Math.abs(l - Math.round(l)) < 1e-6 ? Math.round(l) : undefined;
+  };
+  const decades = splits.map(decade).filter((d): d is number => d !== undefined);
+  const low = decades.length ? Math.min(...decades) : 0;
+  const step = Math.max(1, Math.ceil((decades.length ? Math.max(...decades) - low : 0) / 4));
+  return splits.map((v) => {
+    const d = decade(v);
+    return d !== undefined && (d - low) % step === 0 ? eng(v, unit, 1) : '';
   });
 };
+
+/** A log axis that labels decades itself (uPlot's own thinning would fight the labels). */
+export const logAxis = (unit: string) => ({ values: decadeTicks(unit), filter: (_u: uPlot, splits: number[]) => splits });
 
 /** A series whose largest magnitude is below this fraction of the largest of its kind is a numerical zero. */
 export const NUMERICAL_ZERO = 1e-13;

@@ -8,7 +8,7 @@ import type uPlot from 'uplot';
 import { h } from '../dom.js';
 import { eng, num, RAD_TO_DEG } from '../format.js';
 import type { Doc } from '../types.js';
-import { AXIS_STYLE, decadeTicks, dropPlots, plot, setMarks } from './base.js';
+import { AXIS_STYLE, logAxis, dropPlots, plot, setMarks } from './base.js';
 
 export const BODY_AXES = ['roll', 'pitch', 'yaw'] as const;
 export type BodyAxis = (typeof BODY_AXES)[number];
@@ -21,6 +21,7 @@ export interface AxisSensing {
   minimumRate: number | null;
   rateNoiseDensity?: number | null;
   angleRandomWalk?: number | null;
+  noise?: { density: number; limitedBy: string } | null;
 }
 
 export interface SensingAnswer {
@@ -39,7 +40,8 @@ export interface SweepAnswer {
   warnings?: string[];
 }
 
-const STEPS = 31;
+/** Grid points per axis: SNR is close to a straight line on log–log axes, so a dozen points draw it. */
+const STEPS = 13;
 
 /** The rate span of an axis: from a thirtieth of the smallest detectable rate over five decades. */
 function span(s: SensingAnswer, ax: BodyAxis): [number, number] | undefined {
@@ -68,11 +70,18 @@ const COLOURS = { specified: '#2f5d8a', mirror: '#6f9bc4', pair: '#d1345b', thre
 
 const rateText = (r: number | null | undefined): string => (typeof r === 'number' && Number.isFinite(r) ? eng(r * RAD_TO_DEG, 'deg/s') : 'not detectable');
 
-export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: SensingAnswer | undefined, sweeps: Partial<Record<BodyAxis, SweepAnswer>>, problems: string[]): void {
+export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: SensingAnswer | undefined, sweeps: Partial<Record<BodyAxis, SweepAnswer>>, problems: string[], addNoise?: () => void): void {
   dropPlots('snr-');
   host.replaceChildren();
   if (!sensing) {
     note.textContent = problems.length ? `No sensing answer: ${problems.join('; ')}` : 'No sensing answer.';
+    return;
+  }
+  const noisy = sensing.organs.some((o) => BODY_AXES.some((ax) => o.axes[ax]?.noise));
+  if (!noisy) {
+    const button = h('button', { type: 'button', class: 'small', id: 'add-noise' }, 'Set a readout noise');
+    if (addNoise) button.addEventListener('click', addNoise);
+    note.replaceChildren('This scenario has no noise model (no sensor.readoutNoise and no organ.senseMode), so there is no signal-to-noise ratio to draw. ', button);
     return;
   }
   const threshold = sensing.scenario?.sensor?.threshold ?? 1;
@@ -97,10 +106,10 @@ export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: Sen
       if (i === 0) return;
       const role = c.name.replace(/_snr$/, '');
       const organ = sensing.organs.find((o) => o.role === role);
-      series.push({ label: `${organ?.side ?? role} organ SNR`, stroke: role === 'mirror' ? COLOURS.mirror : COLOURS.specified, width: role === 'mirror' ? 1.2 : 1.8, dash: role === 'mirror' ? [4, 3] : undefined } as uPlot.Series);
+      series.push({ label: `${organ?.side ?? role} organ SNR`, stroke: role === 'mirror' ? COLOURS.mirror : COLOURS.specified, width: role === 'mirror' ? 1.2 : 1.8, dash: role === 'mirror' ? [4, 3] : undefined, points: { show: false } } as uPlot.Series);
       data.push(sw.rows.map((r) => { const v = r[i]; return typeof v === 'number' && v > 0 ? v : null; }));
     });
-    series.push({ label: `threshold (SNR ${num(threshold)})`, stroke: COLOURS.threshold, width: 1, dash: [2, 3] });
+    series.push({ label: `threshold (SNR ${num(threshold)})`, stroke: COLOURS.threshold, width: 1, dash: [2, 3], points: { show: false } });
     data.push(rate.map(() => threshold));
     const marks = { organ: one?.minimumRate ?? null, pair: pairMin, scenario: one?.rate ? Math.abs(one.rate) : null };
     const id = `snr-${ax}`;
@@ -111,13 +120,14 @@ export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: Sen
       series,
       hooks: { draw: [(u: uPlot) => drawMarks(u, marks)] },
       axes: [
-        { ...AXIS_STYLE, label: `${ax} rate (deg/s)`, size: 34, labelSize: 14, values: decadeTicks('') },
-        { ...AXIS_STYLE, values: decadeTicks(''), size: 46, label: 'SNR', labelSize: 14 },
+        { ...AXIS_STYLE, label: `${ax} rate (deg/s)`, size: 34, labelSize: 14, ...logAxis('') },
+        { ...AXIS_STYLE, ...logAxis(''), size: 46, label: 'SNR', labelSize: 14 },
       ],
     }, data as uPlot.AlignedData);
     setMarks(id, { organMinimumRate: marks.organ, pairMinimumRate: marks.pair, threshold });
   }
   const cond = sensing.pair?.conditionNumber;
+  note.replaceChildren();
   note.textContent = [
     'Curves: each organ’s SNR on its best line as the rate about one axis varies (the service’s sweep). Vertical marks: the smallest detectable rate of one organ (blue) and of the pair read together (crimson); the black tick is this scenario’s rate.',
     typeof cond === 'number' ? `Pair condition number ${num(cond)}.` : '',

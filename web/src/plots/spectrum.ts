@@ -6,7 +6,7 @@ import type uPlot from 'uplot';
 import { h } from '../dom.js';
 import { eng } from '../format.js';
 import type { ForcesAnswer, Line } from '../types.js';
-import { AXIS_STYLE, COMPONENT_COLOURS, COMPONENT_NAMES, COMPONENT_ORDER, decadeTicks, dropPlots, NUMERICAL_ZERO as FLOOR, plot, stems } from './base.js';
+import { AXIS_STYLE, COMPONENT_COLOURS, COMPONENT_NAMES, COMPONENT_ORDER, logAxis, dropPlots, NUMERICAL_ZERO as FLOOR, plot, stems } from './base.js';
 
 export function drawSpectrum(host: HTMLElement, note: HTMLElement, a: ForcesAnswer, axis: string, role: string): void {
   dropPlots('spectrum-');
@@ -54,7 +54,7 @@ export function drawSpectrum(host: HTMLElement, note: HTMLElement, a: ForcesAnsw
       series,
       axes: [
         { ...AXIS_STYLE, label: 'harmonic order k', size: 34, labelSize: 14, incrs: [1, 2, 4, 8, 16], values: (_u: uPlot, s: number[]) => s.map((v) => (Number.isInteger(v) ? String(v) : '')) },
-        { ...AXIS_STYLE, values: decadeTicks('N'), size: 58 },
+        { ...AXIS_STYLE, ...logAxis('N'), size: 58 },
       ],
     }, data as uPlot.AlignedData);
   }

@@ -61,7 +61,7 @@ function drawRates(host: HTMLElement, a: TurnAnswer): void {
     const es = a.beats.map((b) => { const v = b.estimatedRate[ax]; return v === null ? null : v * RAD_TO_DEG; });
     const moving = tr.some((v) => v !== 0) || es.some((v) => v !== null && Math.abs(v) > 1e-6 * Math.max(1, ...tr.map(Math.abs)));
     if (!moving) continue;
-    series.push({ label: `true ${ax}`, stroke: AXIS_COLOURS[ax], width: 2 });
+    series.push({ label: `true ${ax}`, stroke: AXIS_COLOURS[ax], width: 2, points: { show: false } });
     series.push({ label: `estimated ${ax}`, stroke: AXIS_COLOURS[ax], width: 1.4, dash: [5, 4], points: { show: true, size: 4, fill: '#fff' } } as uPlot.Series);
     data.push(tr, es);
   }
@@ -81,37 +81,33 @@ function drawTrace(host: HTMLElement, a: TurnAnswer, loadAxis: string): void {
   const organ = s?.organs.find((o) => o.role === 'specified') ?? s?.organs[0];
   if (!s || !organ) return;
   const t = s.time.map((x) => x * 1e3);
-  const series: uPlot.Series[] = [{ label: 'time (ms)' }];
-  const data: number[][] = [t];
-  let caption: string;
-  let unit: string;
-  if (organ.strain) {
-    for (const [kind, leaf] of Object.entries(organ.strain)) {
-      for (const { suffix, ys } of leafSeries(leaf)) {
-        series.push({ label: `${STRAIN_NAMES[kind] ?? kind} strain${suffix}`, stroke: STRAIN_COLOURS[kind] ?? '#333', width: 1.3 });
-        data.push(ys);
-      }
-    }
-    const peak = a.peakStrain?.outOfPlane;
-    caption = `strain at the stalk base, ${organ.side} organ${peak ? ` · peak out of plane ${eng(peak.value, 'ε')} at ${eng(peak.time, 's')} (beat ${peak.beat})` : ''}`;
-    unit = 'ε';
-  } else {
-    const leaf = organ.loads.total?.[loadAxis];
-    if (!leaf) return;
-    for (const { suffix, ys } of leafSeries(leaf)) {
-      series.push({ label: `total load, ${loadAxis}${suffix}`, stroke: '#1d2530', width: 1.2 });
+  // Each strain in its own panel: the rate-induced out-of-plane strain is far below the in-plane one.
+  const traces: { id: string; caption: string; unit: string; colour: string; leaf: Leaf; name: string }[] = organ.strain
+    ? ['outOfPlane', 'inPlane', 'axial'].filter((k) => organ.strain?.[k]).map((k) => {
+      const peak = a.peakStrain?.[k];
+      return {
+        id: `turn-strain-${k}`, name: `${STRAIN_NAMES[k] ?? k} strain`, unit: 'ε', colour: STRAIN_COLOURS[k] ?? '#333', leaf: organ.strain?.[k] as Leaf,
+        caption: `${STRAIN_NAMES[k] ?? k} strain at the stalk base, ${organ.side} organ${peak ? ` · peak ${eng(peak.value, 'ε')} at ${eng(peak.time, 's')} (beat ${peak.beat})` : ''}`,
+      };
+    })
+    : organ.loads.total?.[loadAxis]
+      ? [{ id: 'turn-load', name: `total load, ${loadAxis}`, unit: 'N', colour: '#1d2530', leaf: organ.loads.total[loadAxis] as Leaf, caption: `total load on the ${loadAxis} axis, ${organ.side} organ (no stalk, so no strain)` }]
+      : [];
+  for (const tr of traces) {
+    const series: uPlot.Series[] = [{ label: 'time (ms)' }];
+    const data: number[][] = [t];
+    for (const { suffix, ys } of leafSeries(tr.leaf)) {
+      series.push({ label: `${tr.name}${suffix}`, stroke: tr.colour, width: 1.2, points: { show: false } });
       data.push(ys);
     }
-    caption = `total load on the ${loadAxis} axis, ${organ.side} organ (no stalk: no strain)`;
-    unit = 'N';
+    const box = h('div', { class: 'plot-host' });
+    host.append(h('figure', { class: 'panel' }, h('figcaption', {}, tr.caption), box));
+    plot(tr.id, tr.caption, box, {
+      height: 150,
+      scales: { x: { time: false } },
+      legend: { show: false },
+      series,
+      axes: [{ ...AXIS_STYLE, label: 'time (ms)', size: 34, labelSize: 14 }, { ...AXIS_STYLE, values: engTicks(tr.unit), size: 62 }],
+    }, data as uPlot.AlignedData);
   }
-  const box = h('div', { class: 'plot-host' });
-  host.append(h('figure', { class: 'panel' }, h('figcaption', {}, caption), box));
-  plot('turn-trace', caption, box, {
-    height: 230,
-    scales: { x: { time: false } },
-    legend: { show: true, live: false },
-    series,
-    axes: [{ ...AXIS_STYLE, label: 'time (ms)', size: 34, labelSize: 14 }, { ...AXIS_STYLE, values: engTicks(unit), size: 62 }],
-  }, data as uPlot.AlignedData);
 }
