@@ -17,7 +17,10 @@ import { exampleRoutes, loadExamples } from './routes/examples.js';
 import { forcesRoute } from './routes/forces.js';
 import { healthRoute } from './routes/health.js';
 import { openApiRoute } from './routes/openapi.js';
+import { sensingRoute } from './routes/sensing.js';
 import { sweepRoute } from './routes/sweep.js';
+import { turnRoute } from './routes/turn.js';
+import { sensing } from '../src/sensing/index.js';
 import { ScenarioDocumentSchema } from '../src/sweep.js';
 
 export const API_PREFIX = '/api/v1';
@@ -58,7 +61,7 @@ export function packageRoot(from = dirname(fileURLToPath(import.meta.url))): str
 export function apiRoutes(options: AppOptions = {}): RouteGroup[] {
   const root = packageRoot();
   const examples = loadExamples(options.examplesDir ?? join(root, 'examples'));
-  const api: AnyRoute[] = [forcesRoute, sweepRoute({ budgetMs: options.sweepTimeMs ?? SERVICE_LIMITS.sweepTimeMs }), ...exampleRoutes(examples)];
+  const api: AnyRoute[] = [forcesRoute, sensingRoute, turnRoute, sweepRoute({ sensing, budgetMs: options.sweepTimeMs ?? SERVICE_LIMITS.sweepTimeMs }), ...exampleRoutes(examples)];
   const groups: RouteGroup[] = [
     { prefix: '', routes: [healthRoute] },
     { prefix: API_PREFIX, routes: api },

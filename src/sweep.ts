@@ -25,6 +25,7 @@ import { amplitudePhase, lineIndex } from './harmonics.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { compile, type Model } from './model.js';
 import { parseScenario, toIssues, type Scenario } from './scenario.js';
+import { sensing as sensingOfDoc } from './sensing/sensing.js';
 import { DIMENSIONS, toSI, type DimensionName } from './units.js';
 import type { Vec3 } from './vec.js';
 import { VERSION } from './version.js';
@@ -172,7 +173,7 @@ export interface SweepAnswer {
 export type SensingFn = (doc: unknown) => { ok: true; answer: unknown } | { ok: false; issues: { path: string; message: string; limit?: string }[] };
 
 export interface SweepOptions {
-  /** The sensing computation, for `sensing` outputs. */
+  /** The sensing computation, for `sensing` outputs (default: the project's `sensing`). */
   sensing?: SensingFn;
   /** A clock (ms) and a budget: the sweep stops with a `sweepTime` issue when it runs over. */
   now?: () => number;
@@ -317,14 +318,28 @@ function figure(answer: unknown, path: readonly Segment[]): number | undefined {
   return typeof v === 'number' ? v : v === null ? Number.NaN : undefined;
 }
 
-/** Unit of a sensing figure from the answer's own `units` table, keyed by the path's last name. */
-function sensingUnit(answer: unknown, path: readonly Segment[]): string {
-  const units = isObject(answer) ? answer.units : undefined;
-  for (let i = path.length - 1; i >= 0; i--) {
-    const k = path[i];
-    if (typeof k === 'string' && isObject(units) && typeof units[k] === 'string') return units[k] as string;
+/** The unit of a sensing figure, from the figure's name and the channel's unit (SI; '1' for ratios). */
+export function sensingUnit(answer: unknown, path: readonly Segment[]): string {
+  const names = path.filter((p): p is string => typeof p === 'string');
+  const last = names[names.length - 1] ?? '';
+  const organ = path[0] === 'organs' && typeof path[1] === 'number' ? getAt(answer, ['organs', path[1], 'read', 'unit']) : undefined;
+  const raw = typeof organ === 'string' ? organ : getAt(answer, [...path.slice(0, -1), 'unit']);
+  const unit = typeof raw === 'string' ? (raw.startsWith('1') ? '1' : raw) : '';
+  if (names.includes('perAngularAcceleration')) return 's';
+  if (names.includes('bias')) return 'rad/s';
+  switch (last) {
+    case 'minimumRate': case 'rate': case 'worstCase': return 'rad/s';
+    case 'snr': case 'conditionNumber': case 'roll': case 'pitch': case 'yaw': return '1';
+    case 'rateNoiseDensity': return '(rad/s)/Hz^0.5';
+    case 'angleRandomWalk': return 'deg/h^0.5';
+    case 'scaleFactor': case 'quadratureScaleFactor': return unit ? `${unit}/(rad/s)` : '';
+    case 'signal': case 'sigma': return unit;
+    case 'density': case 'thermalDensity': case 'readoutDensity': return unit ? `${unit}/Hz^0.5` : '';
+    case 'frequency': return 'Hz';
+    case 'referencePhase': case 'phase': return 'rad';
+    case 'time': return 's';
+    default: return '';
   }
-  return '';
 }
 
 // ---- the sweep --------------------------------------------------------------------------------
@@ -393,11 +408,7 @@ export function sweep(request: unknown, options: SweepOptions = {}): SweepResult
     const what = ratePolynomial ? 'for a rate sweep' : 'for a sweep computed point by point (fields other than body rates, or sensing figures)';
     return { ok: false, issues: [{ path: 'vary', message: `${p.axes.length > 1 ? `${p.axes.map((a) => a.values.length).join(' × ')} = ` : ''}${p.points} grid points is over the limit of ${SWEEP_LIMITS[limit]} ${what}`, limit }] };
   }
-  if (p.sensing.length > 0 && !options.sensing) {
-    const first = p.sensing[0] as Plan['sensing'][number];
-    return { ok: false, issues: [{ path: `outputs[${first.index}].sensing`, message: 'sensing figures are not available here; expected line outputs' }] };
-  }
-  return ratePolynomial ? ratePolynomialSweep(req, p) : perPointSweep(req, p, options);
+  return ratePolynomial ? ratePolynomialSweep(req, p) : perPointSweep(req, p, { ...options, sensing: options.sensing ?? sensingOfDoc });
 }
 
 function fieldColumns(p: Plan): SweepColumn[] {

@@ -8,8 +8,11 @@ import { buildApp } from '../../server/app.js';
 import { ForcesAnswerSchema } from '../../server/routes/forces.js';
 import { ExampleListSchema } from '../../server/routes/examples.js';
 import { HealthSchema } from '../../server/routes/health.js';
+import { SensingAnswerSchema } from '../../server/routes/sensing.js';
+import { TurnAnswerSchema } from '../../server/routes/turn.js';
 import { ErrorSchema } from '../../server/schemas.js';
-import { forces, harmonicsCsv, seriesCsv } from '../../src/index.js';
+import { beatsCsv, forces, harmonicsCsv, sensing, seriesCsv, turn, turnSeriesCsv } from '../../src/index.js';
+import { sensingCsv } from '../../src/sensing/index.js';
 import { example, exampleText, expectedHash, JSON_HEADERS, PKG_VERSION, wire } from './helpers.js';
 
 const require = createRequire(import.meta.url);
@@ -229,6 +232,80 @@ describe('POST /api/v1/forces', () => {
       ],
       version: PKG_VERSION,
     });
+  });
+});
+
+describe('POST /api/v1/sensing', () => {
+  it('answers the library answer stamped with version and hash, in the documented shape; CSV table', async () => {
+    for (const name of ['fly-sensing', 'mems-sensing']) {
+      const doc = example(name);
+      const r = await post('/api/v1/sensing', doc);
+      expect(r.statusCode).toBe(200);
+      const lib = sensing(doc);
+      if (!lib.ok) throw new Error(`${name} invalid`);
+      expect(r.json()).toEqual(wire({ ...lib.answer, version: PKG_VERSION, inputHash: expectedHash(doc) }));
+      expect(() => SensingAnswerSchema.parse(r.json())).not.toThrow();
+      const csv = await post('/api/v1/sensing', doc, { accept: 'text/csv' });
+      expect(csv.headers['content-type']).toBe('text/csv; charset=utf-8');
+      expect(csv.body).toBe(sensingCsv(lib.answer));
+      expect(csv.body.split('\r\n')[0]).toMatch(/^side,role,axis,channel_axis,order,frequency_Hz,/);
+    }
+  });
+
+  it('reports the smallest detectable rate as threshold · σ / |K| (design §6) for each organ and axis', async () => {
+    const body = (await post('/api/v1/sensing', example('fly-sensing'))).json() as { organs: { axes: Record<string, { scaleFactor: number; noise: { sigma: number } | null; minimumRate: number | null }> }[] };
+    let checked = 0;
+    for (const o of body.organs) {
+      for (const a of Object.values(o.axes)) {
+        if (!a.noise || a.minimumRate === null) continue;
+        // fly-sensing sets sensor.threshold to 1.
+        expect(a.minimumRate).toBeCloseTo(a.noise.sigma / Math.abs(a.scaleFactor), 12);
+        checked++;
+      }
+    }
+    expect(checked).toBeGreaterThanOrEqual(4);
+  });
+
+  it('refuses an invalid scenario with 400 naming the field', async () => {
+    const doc = { ...example('fly-sensing'), sensor: { readoutNoise: '2e-9 m' } };
+    const r = await post('/api/v1/sensing', doc);
+    expect(r.statusCode).toBe(400);
+    expect(r.json()).toEqual({
+      error: 'invalid_scenario',
+      message: 'the scenario is invalid',
+      issues: [{ path: 'sensor.readoutNoise', message: "'2e-9 m' is not a force noise density or a strain noise density or a displacement noise density; expected a force noise density or a strain noise density or a displacement noise density: a number in N/Hz^0.5 or a string such as '2e-10 N / Hz^0.5'" }],
+      version: PKG_VERSION,
+      inputHash: expectedHash(doc),
+    });
+  });
+});
+
+describe('POST /api/v1/turn', () => {
+  it('answers the library answer stamped with version and hash, in the documented shape; CSV beats and series', async () => {
+    const doc = example('fly-saccade');
+    const r = await post('/api/v1/turn', doc);
+    expect(r.statusCode).toBe(200);
+    const lib = turn(doc);
+    if (!lib.ok) throw new Error('fly-saccade invalid');
+    expect(r.json()).toEqual(wire({ ...lib.answer, version: PKG_VERSION, inputHash: expectedHash(doc) }));
+    expect(() => TurnAnswerSchema.parse(r.json())).not.toThrow();
+    const beats = await post('/api/v1/turn?format=csv', doc);
+    expect(beats.body).toBe(beatsCsv(lib.answer));
+    expect(beats.body.split('\r\n')[0]).toMatch(/^beat,time_s,true_roll_rad_s,/);
+    expect(beats.body.split('\r\n').length - 2).toBe(lib.answer.beats.length);
+    const series = await post('/api/v1/turn?format=csv&table=series', doc);
+    expect(series.body).toBe(turnSeriesCsv(lib.answer));
+  });
+
+  it('refuses a maneuver over the samples limit with 413 naming the limit', async () => {
+    const doc = { ...example('fly-saccade'), sampling: { pointsPerBeat: 8192, beats: 1, harmonics: 8 } };
+    const r = await post('/api/v1/turn', doc);
+    expect(r.statusCode).toBe(413);
+    const body = r.json() as { error: string; limit: string; issues: { path: string; limit?: string }[] };
+    expect(body.error).toBe('over_limit');
+    expect(body.limit).toBe('samplesPerRequest');
+    expect(body.issues.every((i) => i.path.length > 0)).toBe(true);
+    expect(() => ErrorSchema.parse(body)).not.toThrow();
   });
 });
 

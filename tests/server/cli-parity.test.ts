@@ -50,6 +50,27 @@ describe('CLI and service give the same numbers', () => {
     });
   }
 
+  for (const [command, name, tables] of [
+    ['sensing', 'fly-sensing', [[[], '']]],
+    ['sensing', 'mems-sensing', [[[], '']]],
+    ['turn', 'fly-saccade', [[[], ''], [['--series'], '&table=series']]],
+  ] as const) {
+    it(`${command} ${name}: JSON equal (service adds inputHash), CSV tables equal`, async () => {
+      const c = cli([command, file(name), '--compact']);
+      expect(c.code).toBe(0);
+      const s = await post(`/api/v1/${command}`, exampleText(name));
+      expect(s.statusCode).toBe(200);
+      const { inputHash, ...rest } = s.json() as Record<string, unknown>;
+      expect(inputHash).toMatch(/^[0-9a-f]{16}$/);
+      expect(JSON.stringify(rest)).toBe(c.out.trim());
+      for (const [flags, query] of tables) {
+        const csvCli = cli([command, file(name), '--format', 'csv', ...flags]);
+        expect(csvCli.code).toBe(0);
+        expect((await post(`/api/v1/${command}?format=csv${query}`, exampleText(name))).body).toBe(csvCli.out);
+      }
+    });
+  }
+
   it('refuses an invalid scenario with the same issues (CLI on stderr, service in the body)', async () => {
     const doc = JSON.stringify({ organ: { mass: '12 mV', arm: '1 mm', frequency: '170 Hz', amplitude: '80 deg', rest: [0, 1, 0], normal: [1, 1, 0] }, sampling: { pointsPerBeat: 7 } });
     const c = cli(['forces', '-'], doc);

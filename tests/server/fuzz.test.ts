@@ -20,7 +20,7 @@ afterAll(async () => {
   await app.close();
 });
 
-const BASES = ['fly-tilted-stroke', 'mems-tuning-fork', 'measured-stroke'].map(example);
+const BASES = ['fly-tilted-stroke', 'mems-tuning-fork', 'measured-stroke', 'fly-sensing', 'mems-sensing', 'fly-saccade'].map(example);
 
 const QUANTITIES = ['12 mV', '-3 deg', '1e400 Hz', 'NaN kg', '', 'µg', '5 GPa', '7 ug', '0.9 mm', '170 Hz', '80 deg', '200 deg/s', '1 N / sqrt(Hz)', '3 * 4', 'x'.repeat(120), '1 kg m', 'Infinity', '1e-300 m', '0 Hz', '-1 ug', 'sine', 'triangle', '10 rad', '1e6 deg/s', '__proto__', 'constructor'];
 
@@ -128,16 +128,18 @@ function check(status: number, body: string, sent: unknown, route: string): void
 }
 
 describe('fuzz: random and malformed documents', () => {
-  it('POST /api/v1/forces answers 200, 400 or 413 for 1,500 random scenario documents', async () => {
-    await fc.assert(
-      fc.asyncProperty(scenarioDoc, async (doc) => {
-        const payload = JSON.stringify(doc) ?? 'null';
-        const r = await app.inject({ method: 'POST', url: '/api/v1/forces', payload, headers: JSON_HEADERS });
-        check(r.statusCode, r.body, JSON.parse(payload), 'forces');
-      }),
-      { numRuns: 1500 },
-    );
-  });
+  for (const [route, runs] of [['forces', 1000], ['sensing', 800], ['turn', 300]] as const) {
+    it(`POST /api/v1/${route} answers 200, 400 or 413 for ${runs} random scenario documents`, async () => {
+      await fc.assert(
+        fc.asyncProperty(scenarioDoc, async (doc) => {
+          const payload = JSON.stringify(doc) ?? 'null';
+          const r = await app.inject({ method: 'POST', url: `/api/v1/${route}`, payload, headers: JSON_HEADERS });
+          check(r.statusCode, r.body, JSON.parse(payload), route);
+        }),
+        { numRuns: runs },
+      );
+    });
+  }
 
   it('POST /api/v1/sweep answers 200, 400 or 413 for 600 random sweep requests', async () => {
     await fc.assert(
@@ -157,7 +159,7 @@ describe('fuzz: random and malformed documents', () => {
       fc.constantFrom('{"organ": {"__proto__": {"x": 1}}}', '{"constructor": {"prototype": {"x": 1}}}', '{"organ": NaN}', "{'organ': 1}", '{"organ": 1,}', '\u0000'),
     );
     await fc.assert(
-      fc.asyncProperty(text, fc.constantFrom('/api/v1/forces', '/api/v1/sweep'), async (payload, url) => {
+      fc.asyncProperty(text, fc.constantFrom('/api/v1/forces', '/api/v1/sensing', '/api/v1/turn', '/api/v1/sweep'), async (payload, url) => {
         let parsed: unknown;
         let valid = true;
         try {

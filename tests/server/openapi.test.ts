@@ -153,7 +153,7 @@ describe('GET /api/v1/openapi.json', () => {
     }
     const documented = Object.entries(paths).flatMap(([p, item]) => Object.keys(item).map((m) => `${m.toUpperCase()} ${p}`));
     expect(documented.sort()).toEqual(api.map((r) => `${r.method} ${r.url.replace(/:(\w+)/g, '{$1}')}`).sort());
-    for (const required of ['POST /api/v1/forces', 'POST /api/v1/sweep', 'GET /api/v1/examples', 'GET /api/v1/examples/{name}', 'GET /api/v1/openapi.json', 'GET /health']) expect(documented).toContain(required);
+    for (const required of ['POST /api/v1/forces', 'POST /api/v1/sensing', 'POST /api/v1/turn', 'POST /api/v1/sweep', 'GET /api/v1/examples', 'GET /api/v1/examples/{name}', 'GET /api/v1/openapi.json', 'GET /health']) expect(documented).toContain(required);
   });
 
   it('documents each request body with the very zod schema that validates it (request side)', () => {
@@ -165,7 +165,10 @@ describe('GET /api/v1/openapi.json', () => {
     const own = z.toJSONSchema(SweepRequestSchema, opts) as { properties: Json };
     expect({ ...sweep.properties, scenario: undefined }).toEqual({ ...own.properties, scenario: undefined });
     const forces = (doc.paths as Record<string, Record<string, Json>>)['/api/v1/forces']?.post;
-    expect((forces?.requestBody as Json).content).toEqual({ 'application/json': { schema: { $ref: '#/components/schemas/Scenario' } } });
+    for (const route of ['forces', 'sensing', 'turn']) {
+      const op = (doc.paths as Record<string, Record<string, Json>>)[`/api/v1/${route}`]?.post;
+      expect((op?.requestBody as Json).content).toEqual({ 'application/json': { schema: { $ref: '#/components/schemas/Scenario' } } });
+    }
     expect(forces?.parameters).toEqual([
       { name: 'format', in: 'query', required: false, description: 'json (default) or csv; overrides the Accept header', schema: { type: 'string', enum: ['json', 'csv'] } },
       { name: 'table', in: 'query', required: false, description: 'with CSV: the harmonic lines (default) or the load series', schema: { type: 'string', enum: ['harmonics', 'series'] } },

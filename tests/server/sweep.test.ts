@@ -9,7 +9,7 @@ import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../server/app.js';
 import { SweepAnswerSchema } from '../../server/routes/sweep.js';
-import { forces, type Line } from '../../src/index.js';
+import { forces, sensing, type Line } from '../../src/index.js';
 import { sweep, SWEEP_LIMITS, type SweepAnswer } from '../../src/sweep.js';
 import { example, expectedHash, JSON_HEADERS, PKG_VERSION } from './helpers.js';
 
@@ -163,6 +163,29 @@ describe('sweep(request): per-point method', () => {
   });
 });
 
+describe('sweep(request): sensing figures', () => {
+  it('equals sensing() at every grid point, with units from the figure and the channel', () => {
+    const doc = example('fly-sensing');
+    const a = ok(sweep({ scenario: doc, vary: [{ field: 'sensor.integration', values: ['10 ms', '100 ms', '1 s'] }], outputs: [{ sensing: 'organs[0].axes.yaw.minimumRate' }, { line: { component: 'coriolis', axis: 'normal', order: 2 } }, { sensing: 'pair.yaw.minimumRate', name: 'pairYaw' }, { sensing: 'organs[1].axes.yaw.scaleFactor' }, { sensing: 'organs[0].axes.yaw.bias.quadrature' }] }));
+    expect(a.method).toBe('per-point');
+    expect(a.columns).toEqual([
+      { name: 'sensor.integration', unit: 's', kind: 'field' },
+      { name: 'organs[0].axes.yaw.minimumRate', unit: 'rad/s', kind: 'sensing' },
+      { name: 'specified.coriolis.normal.2.amplitude', unit: 'N', kind: 'line' },
+      { name: 'pairYaw', unit: 'rad/s', kind: 'sensing' },
+      { name: 'organs[1].axes.yaw.scaleFactor', unit: '1/(rad/s)', kind: 'sensing' },
+      { name: 'organs[0].axes.yaw.bias.quadrature', unit: 'rad/s', kind: 'sensing' },
+    ]);
+    a.rows.forEach((row, i) => {
+      const r = sensing({ ...doc, sensor: { ...(doc.sensor as object), integration: ['10 ms', '100 ms', '1 s'][i] } });
+      if (!r.ok) throw new Error('invalid');
+      expect(row.slice(1)).toEqual([r.answer.organs[0]?.axes.yaw.minimumRate, expect.any(Number), r.answer.pair.yaw.minimumRate, r.answer.organs[1]?.axes.yaw.scaleFactor, r.answer.organs[0]?.axes.yaw.bias?.quadrature]);
+    });
+    // White noise averaged over T: the minimum rate falls as 1/√T (design §6, σ = √(S/T)).
+    expect((a.rows[0]?.[1] as number) / (a.rows[2]?.[1] as number)).toBeCloseTo(10, 9);
+  });
+});
+
 describe('sweep(request): refusals name the field', () => {
   const line = { line: { component: 'total', axis: 'x', order: 1 } };
   const cases: [string, unknown, { path: string; message: string; limit?: string }[]][] = [
@@ -177,7 +200,8 @@ describe('sweep(request): refusals name the field', () => {
     ['an order above Nyquist on the sampled path', { scenario: { ...fly, organ: { ...(fly.organ as object), waveform: 'triangle' }, sampling: { pointsPerBeat: 16, harmonics: 4 } }, vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [{ line: { component: 'total', axis: 'x', order: 9 } }] }, [{ path: 'outputs[0].line.order', message: '9 is above the 7 orders that 16 points per beat resolve; raise sampling.pointsPerBeat' }]],
     ['three grid axes', { scenario: fly, vary: [1, 2, 3].map(() => ({ field: 'organ.mass', values: [1] })), outputs: [line] }, [{ path: 'vary', message: 'has more than two grid axes; expected one or two' }]],
     ['no outputs', { scenario: fly, vary: [{ field: 'organ.mass', values: [1] }], outputs: [] }, [{ path: 'outputs', message: 'is empty; expected at least one output' }]],
-    ['sensing figures without a sensing function', { scenario: fly, vary: [{ field: 'organ.mass', values: [1] }], outputs: [{ sensing: 'pair.yaw.minimumRate' }] }, [{ path: 'outputs[0].sensing', message: 'sensing figures are not available here; expected line outputs' }]],
+    ['a sensing path that is not a number', { scenario: fly, vary: [{ field: 'organ.mass', values: ['6 ug'] }], outputs: [{ sensing: 'organs[0].axes.yaw' }] }, [{ path: 'outputs[0].sensing', message: '\'organs[0].axes.yaw\' is not a number in the sensing answer; expected a path such as "organs[0].axes.yaw.minimumRate"' }]],
+    ['a sensing path that is not a path', { scenario: fly, vary: [{ field: 'organ.mass', values: ['6 ug'] }], outputs: [{ sensing: 'organs..yaw' }] }, [{ path: 'outputs[0].sensing', message: '\'organs..yaw\' is not a path; expected e.g. "organs[0].axes.yaw.minimumRate"' }]],
     ['an invalid scenario', { scenario: { organ: { mass: '1 kg' } }, vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line] }, [
       { path: 'scenario.organ.frequency', message: "is required; expected a frequency: a number in Hz or a string such as '170 Hz'" },
       { path: 'scenario.organ.arm', message: "is required; expected a length: a number in m or a string such as '0.9 mm'" },
