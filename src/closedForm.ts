@@ -32,11 +32,11 @@ export function closedFormApplies(g: Geometry): boolean {
  * Series live in one reusable buffer (the core is synchronous, so one workspace serves every
  * call): slot i holds P_0..P_{L−1} then Q_0..Q_{L−1} of Σ P_k cos ku + Q_k sin ku.
  */
-interface Workspace { L: number; buf: Float64Array; ready: Uint8Array; J: Float64Array; J2: Float64Array }
+interface Workspace { L: number; buf: Float64Array; ready: Uint8Array; J: Float64Array; J2: Float64Array; cs: Float64Array; terms: Float64Array }
 const SLOTS = 26; // 24 products g·τ, one temporary, one spare
 let ws: Workspace | undefined;
 function workspace(L: number): Workspace {
-  if (!ws || ws.L !== L) ws = { L, buf: new Float64Array(SLOTS * 2 * L), ready: new Uint8Array(SLOTS), J: new Float64Array(L + 1), J2: new Float64Array(L + 1) };
+  if (!ws || ws.L !== L) ws = { L, buf: new Float64Array(SLOTS * 2 * L), ready: new Uint8Array(SLOTS), J: new Float64Array(L + 1), J2: new Float64Array(L + 1), cs: new Float64Array(2 * L), terms: new Float64Array(3 * N_TERMS) };
   return ws;
 }
 
@@ -67,7 +67,19 @@ const T_ONE = 0, T_C = 1, T_S = 2, T_CC = 3, T_CS = 4, T_SS = 5;
 const TIMES_C = [T_C, T_CC, T_CS] as const; // τ·cos φ for τ = 1, C, S
 const TIMES_S = [T_S, T_CS, T_SS] as const; // τ·sin φ
 
-interface Term { g: number; tau: 0 | 1 | 2; w: Vec3 }
+/**
+ * The g·τ·W terms of each component (design §4 with Σm r = M h + μ e_r, e_r = cos φ a0 + sin φ t0):
+ *   primary        −μ ë_r = μ (φ̈ (sin φ a0 − cos φ t0) + φ̇² (cos φ a0 + sin φ t0))
+ *   centrifugal    −Ω×(Ω×(M h + μ e_r)),   angularAcceleration −Ω̇×(M h + μ e_r)
+ *   coriolis       −2 Ω×(μ φ̇ e_t) = 2μ φ̇ (sin φ Ω×a0 − cos φ Ω×t0)
+ *   translational  −M a,   gravity M g
+ * Term i belongs to component TERM_C[i] with time factor TERM_G[i] and τ = TERM_TAU[i]; its body
+ * vector W goes to w[3i..3i+2] (a fixed scratch: nothing is allocated per call).
+ */
+const TERM_C = [0, 0, 0, 0, 1, 1, 1, 2, 2, 2, 3, 3, 4, 5] as const;
+const TERM_G = [G_ACC, G_ACC, G_RATE2, G_RATE2, G_ONE, G_ONE, G_ONE, G_ONE, G_ONE, G_ONE, G_RATE, G_RATE, G_ONE, G_ONE] as const;
+const TERM_TAU = [2, 1, 1, 2, 0, 1, 2, 0, 1, 2, 2, 1, 0, 0] as const;
+const N_TERMS = TERM_C.length;
 
 /** −Ω×(Ω×v) = v|Ω|² − Ω(Ω·v). */
 const centrifugal = (w: Vec3, v: Vec3): Vec3 => {
@@ -75,17 +87,69 @@ const centrifugal = (w: Vec3, v: Vec3): Vec3 => {
   return [v[0] * w2 - w[0] * wv, v[1] * w2 - w[1] * wv, v[2] * w2 - w[2] * wv];
 };
 
-/** Terms g·τ·W of each component (index as in COMPONENTS; total omitted). */
-function rotaryTerms(M: number, mu: number, h: Vec3, a0: Vec3, t0: Vec3, m: Motion): Term[][] {
-  const W = m.omega, Wd = m.omegaDot, Mh = scale(h, M);
-  return [
-    [{ g: G_ACC, tau: 2, w: scale(a0, mu) }, { g: G_ACC, tau: 1, w: scale(t0, -mu) }, { g: G_RATE2, tau: 1, w: scale(a0, mu) }, { g: G_RATE2, tau: 2, w: scale(t0, mu) }],
-    [{ g: G_ONE, tau: 0, w: centrifugal(W, Mh) }, { g: G_ONE, tau: 1, w: scale(centrifugal(W, a0), mu) }, { g: G_ONE, tau: 2, w: scale(centrifugal(W, t0), mu) }],
-    [{ g: G_ONE, tau: 0, w: scale(cross(Wd, Mh), -1) }, { g: G_ONE, tau: 1, w: scale(cross(Wd, a0), -mu) }, { g: G_ONE, tau: 2, w: scale(cross(Wd, t0), -mu) }],
-    [{ g: G_RATE, tau: 2, w: scale(cross(W, a0), 2 * mu) }, { g: G_RATE, tau: 1, w: scale(cross(W, t0), -2 * mu) }],
-    [{ g: G_ONE, tau: 0, w: scale(m.accel, -M) }],
-    [{ g: G_ONE, tau: 0, w: scale(m.gravity, M) }],
-  ];
+/** −Ω×(Ω×v)·s = (v|Ω|² − Ω(Ω·v))·s into w at i. */
+function centrifugalInto(w: Float64Array, i: number, W: Vec3, v0: number, v1: number, v2: number, s: number): void {
+  const w2 = W[0] * W[0] + W[1] * W[1] + W[2] * W[2], wv = W[0] * v0 + W[1] * v1 + W[2] * v2;
+  w[i] = (v0 * w2 - W[0] * wv) * s;
+  w[i + 1] = (v1 * w2 - W[1] * wv) * s;
+  w[i + 2] = (v2 * w2 - W[2] * wv) * s;
+}
+
+/** (A × v)·s into w at i. */
+function crossInto(w: Float64Array, i: number, A: Vec3, v0: number, v1: number, v2: number, s: number): void {
+  w[i] = (A[1] * v2 - A[2] * v1) * s;
+  w[i + 1] = (A[2] * v0 - A[0] * v2) * s;
+  w[i + 2] = (A[0] * v1 - A[1] * v0) * s;
+}
+
+function rotaryTerms(w: Float64Array, M: number, mu: number, h: Vec3, a0: Vec3, t0: Vec3, m: Motion): void {
+  const W = m.omega, Wd = m.omegaDot;
+  const h0 = h[0] * M, h1 = h[1] * M, h2 = h[2] * M;
+  const set = (i: number, x: number, y: number, z: number) => {
+    w[3 * i] = x; w[3 * i + 1] = y; w[3 * i + 2] = z;
+  };
+  set(0, a0[0] * mu, a0[1] * mu, a0[2] * mu);
+  set(1, t0[0] * -mu, t0[1] * -mu, t0[2] * -mu);
+  set(2, a0[0] * mu, a0[1] * mu, a0[2] * mu);
+  set(3, t0[0] * mu, t0[1] * mu, t0[2] * mu);
+  centrifugalInto(w, 12, W, h0, h1, h2, 1);
+  centrifugalInto(w, 15, W, a0[0], a0[1], a0[2], mu);
+  centrifugalInto(w, 18, W, t0[0], t0[1], t0[2], mu);
+  crossInto(w, 21, Wd, h0, h1, h2, -1);
+  crossInto(w, 24, Wd, a0[0], a0[1], a0[2], -mu);
+  crossInto(w, 27, Wd, t0[0], t0[1], t0[2], -mu);
+  crossInto(w, 30, W, a0[0], a0[1], a0[2], 2 * mu);
+  crossInto(w, 33, W, t0[0], t0[1], t0[2], -2 * mu);
+  set(12, m.accel[0] * -M, m.accel[1] * -M, m.accel[2] * -M);
+  set(13, m.gravity[0] * M, m.gravity[1] * M, m.gravity[2] * M);
+}
+
+/**
+ * Add one term's lines to a component's six axes: body axes W·(g τ), radial (W·a0)(g τ cos φ) +
+ * (W·t0)(g τ sin φ), tangential −(W·a0)(g τ sin φ) + (W·t0)(g τ cos φ), normal (W·n)(g τ).
+ * `base`, `sc`, `ss` are the slots of g τ, g τ cos φ and g τ sin φ; a zero weight adds nothing.
+ */
+function addTerm(pq: Float64Array, at: number, K1: number, b: Float64Array, L: number, base: number, sc: number, ss: number, V0: number, V1: number, V2: number, wa: number, wt: number, wn: number): void {
+  const step = 2 * K1;
+  for (let k = 0; k < K1; k++) {
+    const bp = b[base + k] as number, bq = b[base + L + k] as number;
+    const cp = b[sc + k] as number, cq = b[sc + L + k] as number;
+    const sp = b[ss + k] as number, sq = b[ss + L + k] as number;
+    let o = at + 2 * k;
+    if (V0 !== 0) { pq[o] = (pq[o] as number) + V0 * bp; pq[o + 1] = (pq[o + 1] as number) + V0 * bq; }
+    o += step;
+    if (V1 !== 0) { pq[o] = (pq[o] as number) + V1 * bp; pq[o + 1] = (pq[o + 1] as number) + V1 * bq; }
+    o += step;
+    if (V2 !== 0) { pq[o] = (pq[o] as number) + V2 * bp; pq[o + 1] = (pq[o + 1] as number) + V2 * bq; }
+    o += step;
+    if (wa !== 0) { pq[o] = (pq[o] as number) + wa * cp; pq[o + 1] = (pq[o + 1] as number) + wa * cq; }
+    if (wt !== 0) { pq[o] = (pq[o] as number) + wt * sp; pq[o + 1] = (pq[o + 1] as number) + wt * sq; }
+    o += step;
+    if (wa !== 0) { pq[o] = (pq[o] as number) + -wa * sp; pq[o + 1] = (pq[o + 1] as number) + -wa * sq; }
+    if (wt !== 0) { pq[o] = (pq[o] as number) + wt * cp; pq[o + 1] = (pq[o + 1] as number) + wt * cq; }
+    o += step;
+    if (wn !== 0) { pq[o] = (pq[o] as number) + wn * bp; pq[o + 1] = (pq[o + 1] as number) + wn * bq; }
+  }
 }
 
 function addScaled(pq: Float64Array, at: number, orders: number, b: Float64Array, L: number, slot: number, s: number): void {
@@ -96,12 +160,16 @@ function addScaled(pq: Float64Array, at: number, orders: number, b: Float64Array
   }
 }
 
-/** Shift every line by a time advance δ/ω: f(u) = f₀(u + δ). */
-function advance(pq: Float64Array, orders: number, delta: number): void {
+/** Shift every line by a time advance δ/ω: f(u) = f₀(u + δ). `cs` holds cos kδ, sin kδ (scratch). */
+function advance(pq: Float64Array, orders: number, delta: number, cs: Float64Array): void {
   if (delta === 0) return;
+  for (let k = 1; k < orders; k++) {
+    cs[2 * k] = Math.cos(k * delta);
+    cs[2 * k + 1] = Math.sin(k * delta);
+  }
   for (let base = 0; base < pq.length; base += 2 * orders) {
     for (let k = 1; k < orders; k++) {
-      const c = Math.cos(k * delta), s = Math.sin(k * delta);
+      const c = cs[2 * k] as number, s = cs[2 * k + 1] as number;
       const p = pq[base + 2 * k] as number, q = pq[base + 2 * k + 1] as number;
       pq[base + 2 * k] = p * c + q * s;
       pq[base + 2 * k + 1] = -p * s + q * c;
@@ -118,6 +186,24 @@ function sumTotal(pq: Float64Array, orders: number): void {
   }
 }
 
+const TMP = 24;
+const slotOf = (L: number, i: number): number => i * 2 * L;
+
+/** Offset of the series g·τ in the workspace, computed on first use from the τ series. */
+function seriesSlot(W: Workspace, gi: number, ti: number, amp: number, w: number): number {
+  const L = W.L, b = W.buf, key = gi * 6 + ti;
+  if (W.ready[key] === 0) {
+    if (gi === G_RATE) mulCos(b, L, slotOf(L, ti), slotOf(L, key), amp * w);
+    else if (gi === G_ACC) mulSin(b, L, slotOf(L, ti), slotOf(L, key), -amp * w * w);
+    else {
+      mulCos(b, L, slotOf(L, ti), slotOf(L, TMP), 1);
+      mulCos(b, L, slotOf(L, TMP), slotOf(L, key), amp * amp * w * w);
+    }
+    W.ready[key] = 1;
+  }
+  return slotOf(L, key);
+}
+
 /** Lines of every component and axis, orders 0..K, into `out` (allocHarmonics(K)). */
 export function closedFormHarmonics(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   return g.drive === 'rotary' ? rotary(g, m, out) : linear(g, m, out);
@@ -130,7 +216,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   const a1 = wave.cos[0] ?? 0, b1 = wave.sin[0] ?? 0;
   const amp = Math.hypot(a1, b1);
   const delta = Math.atan2(a1, b1);
-  const w = 2 * Math.PI * g.frequency;
+  const w0 = 2 * Math.PI * g.frequency;
   const cm = Math.cos(wave.mean), sm = Math.sin(wave.mean);
   const a0: Vec3 = [cm * g.e1[0] + sm * g.e2[0], cm * g.e1[1] + sm * g.e2[1], cm * g.e1[2] + sm * g.e2[2]];
   const t0: Vec3 = [cm * g.e2[0] - sm * g.e1[0], cm * g.e2[1] - sm * g.e1[1], cm * g.e2[2] - sm * g.e1[2]];
@@ -141,7 +227,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   b.fill(0);
   W.ready.fill(0);
   const J = besselJ(amp, L, W.J), J2 = besselJ(2 * amp, L, W.J2);
-  const slot = (i: number) => i * 2 * L;
+  const slot = (i: number) => slotOf(L, i);
   b[slot(T_ONE)] = 1;
   for (let k = 0; k < L; k++) {
     const jk = J[k] as number, j2k = J2[k] as number;
@@ -156,45 +242,21 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
     }
   }
   for (let t = 0; t < 6; t++) W.ready[t] = 1;
-  const TMP = 24;
-  /** Offset of the series g·τ, computed on first use. */
-  const series = (gi: number, ti: number): number => {
-    const key = gi * 6 + ti;
-    if (W.ready[key] === 0) {
-      if (gi === G_RATE) mulCos(b, L, slot(ti), slot(key), amp * w);
-      else if (gi === G_ACC) mulSin(b, L, slot(ti), slot(key), -amp * w * w);
-      else {
-        mulCos(b, L, slot(ti), slot(TMP), 1);
-        mulCos(b, L, slot(TMP), slot(key), amp * amp * w * w);
-      }
-      W.ready[key] = 1;
-    }
-    return slot(key);
-  };
-
   const pq = out.pq;
   pq.fill(0);
-  const terms = rotaryTerms(g.mass, g.moment, g.hinge, a0, t0, m);
-  for (let c = 0; c < TOTAL; c++) {
-    const at = c * N_AXES * K1 * 2;
-    const step = K1 * 2;
-    for (const term of terms[c] as Term[]) {
-      const V = term.w;
-      if (V[0] === 0 && V[1] === 0 && V[2] === 0) continue;
-      const base = series(term.g, term.tau);
-      addScaled(pq, at, K1, b, L, base, V[0]);
-      addScaled(pq, at + step, K1, b, L, base, V[1]);
-      addScaled(pq, at + 2 * step, K1, b, L, base, V[2]);
-      const wa = dot(V, a0), wt = dot(V, t0);
-      const sc = series(term.g, TIMES_C[term.tau]), ss = series(term.g, TIMES_S[term.tau]);
-      addScaled(pq, at + 3 * step, K1, b, L, sc, wa);
-      addScaled(pq, at + 3 * step, K1, b, L, ss, wt);
-      addScaled(pq, at + 4 * step, K1, b, L, ss, -wa);
-      addScaled(pq, at + 4 * step, K1, b, L, sc, wt);
-      addScaled(pq, at + 5 * step, K1, b, L, base, dot(V, n));
-    }
+  const w = W.terms;
+  rotaryTerms(w, g.mass, g.moment, g.hinge, a0, t0, m);
+  const step = K1 * 2;
+  for (let i = 0; i < N_TERMS; i++) {
+    const V0 = w[3 * i] as number, V1 = w[3 * i + 1] as number, V2 = w[3 * i + 2] as number;
+    if (V0 === 0 && V1 === 0 && V2 === 0) continue;
+    const gi = TERM_G[i] as number, tau = TERM_TAU[i] as 0 | 1 | 2;
+    const base = seriesSlot(W, gi, tau, amp, w0);
+    const sc = seriesSlot(W, gi, TIMES_C[tau], amp, w0), ss = seriesSlot(W, gi, TIMES_S[tau], amp, w0);
+    const wa = V0 * a0[0] + V1 * a0[1] + V2 * a0[2], wt = V0 * t0[0] + V1 * t0[1] + V2 * t0[2], wn = V0 * n[0] + V1 * n[1] + V2 * n[2];
+    addTerm(pq, (TERM_C[i] as number) * N_AXES * step, K1, b, L, base, sc, ss, V0, V1, V2, wa, wt, wn);
   }
-  advance(pq, K1, delta);
+  advance(pq, K1, delta, W.cs);
   sumTotal(pq, K1);
   return out;
 }

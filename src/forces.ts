@@ -101,16 +101,26 @@ function sampledHarmonics(g: Geometry, motion: Motion, n: number, out: HarmonicT
   return loadHarmonics(ws.beat, n, table, out.orders - 1, out);
 }
 
+export interface OrganNumbersOptions {
+  mirror: boolean;
+  path: Path;
+  pointsPerBeat: number;
+  harmonics: number;
+  series: boolean;
+  /** A table to fill (allocHarmonics(harmonics)), for callers that evaluate many times; fresh otherwise. */
+  out?: HarmonicTable;
+}
+
 /**
  * The numbers for one organ of a compiled model: `mirror` selects the mirror organ
  * (computed as the specified geometry under the mirrored motion, body axes reflected).
  * With `series`, the beat's series are fresh arrays owned by the caller.
  */
-export function organNumbers(model: Model, opts: { mirror: boolean; path: Path; pointsPerBeat: number; harmonics: number; series: boolean }): OrganNumbers {
+export function organNumbers(model: Model, opts: OrganNumbersOptions): OrganNumbers {
   const g = model.geometry;
   const motion = opts.mirror ? mirroredMotion(model.motion) : model.motion;
   const n = opts.pointsPerBeat;
-  const table = allocHarmonics(opts.harmonics);
+  const table = opts.out && opts.out.orders === opts.harmonics + 1 ? opts.out : allocHarmonics(opts.harmonics);
   let out: OrganNumbers = { table };
   if (opts.series) {
     const s = sampleOrgan(g, motion, n);

@@ -162,9 +162,23 @@ export function loads(k: Kinematics, m: MotionSeries, M: number, out: LoadSeries
     at = P + j + 5 * cs; d[at] = gx; d[at + N] = gy; d[at + 2 * N] = gz;
     at = P + j + 6 * cs; d[at] = sx; d[at + N] = sy; d[at + 2 * N] = sz;
   }
-  // Organ-frame projections of every component, one small loop each.
-  for (let c = 0; c < N_COMPONENTS; c++) projectOnFrame(d, P + c * cs, N, n, k);
+  // Organ-frame projections of every component, one small loop each (a component that is zero on
+  // every sample, e.g. gravity when it is off, projects to zeros without the arithmetic).
+  for (let c = 0; c < N_COMPONENTS; c++) {
+    const a = P + c * cs;
+    if (isZero(d, a, n) && isZero(d, a + N, n) && isZero(d, a + 2 * N, n)) {
+      d.fill(0, a + 3 * N, a + 3 * N + n);
+      d.fill(0, a + 4 * N, a + 4 * N + n);
+      d.fill(0, a + 5 * N, a + 5 * N + n);
+    } else projectOnFrame(d, a, N, n, k);
+  }
   return out;
+}
+
+/** True when d[at..at+n) holds only zeros. */
+function isZero(d: Float64Array, at: number, n: number): boolean {
+  for (let j = at; j < at + n; j++) if (d[j] !== 0) return false;
+  return true;
 }
 
 /**
