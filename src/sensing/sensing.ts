@@ -531,22 +531,26 @@ function senseModeAnswer(P: SensingPlan, o: PreparedOrgan): SenseModeAnswer {
   const drive = P.scenario.organ.drive;
   const b = senseAxisIndex(drive);
   const K1 = o.lines.orders, f = P.plan.frequency, omega = P.model.motion.omega;
-  const H = (k: number) => displacementTransfer(sm, 2 * Math.PI * f * k);
-  const transfer = Array.from({ length: K1 - 1 }, (_, j) => {
-    const k = j + 1, [re, im] = H(k), [gr, gi] = forceTransfer(sm, 2 * Math.PI * f * k);
-    return { order: k, frequency: k * f, magnitude: Math.hypot(re, im), phase: Math.atan2(im, re), forceGain: Math.hypot(gr, gi) };
-  });
-  const perUnitRate = {} as Record<RateAxis, SenseLine[]>;
-  RATE_AXES.forEach((name, i) => {
-    perUnitRate[name] = Array.from({ length: K1 - 1 }, (_, j) => {
-      const k = j + 1, [tr, ti] = H(k);
-      return senseLine(k, through(o.lines.data, unitAt(o.lines, BLOCK.coriolis, i, b, k), tr, ti));
-    });
-  });
-  const W = Array.from({ length: K1 }, (_, k) => {
-    const [tr, ti] = H(k), [p, q] = totalLine(o.lines, omega, b, k);
-    return throughPQ(p, q, tr, ti);
-  });
+  const Hs: [number, number][] = [];
+  for (let k = 0; k < K1; k++) Hs.push(displacementTransfer(sm, 2 * Math.PI * f * k));
+  const transfer: SenseModeAnswer['transfer'] = [];
+  for (let k = 1; k < K1; k++) {
+    const [re, im] = Hs[k] as [number, number];
+    transfer.push({ order: k, frequency: k * f, magnitude: Math.sqrt(re * re + im * im), phase: Math.atan2(im, re), forceGain: stiffness(sm) * Math.sqrt(re * re + im * im) });
+  }
+  const perUnitRate = { roll: [], pitch: [], yaw: [] } as Record<RateAxis, SenseLine[]>;
+  for (let i = 0; i < 3; i++) {
+    const list = perUnitRate[RATE_AXES[i] as RateAxis];
+    for (let k = 1; k < K1; k++) {
+      const [tr, ti] = Hs[k] as [number, number];
+      list.push(senseLine(k, through(o.lines.data, unitAt(o.lines, BLOCK.coriolis, i, b, k), tr, ti)));
+    }
+  }
+  const W: [number, number][] = [];
+  for (let k = 0; k < K1; k++) {
+    const [tr, ti] = Hs[k] as [number, number], [p, q] = totalLine(o.lines, omega, b, k);
+    W.push(throughPQ(p, q, tr, ti));
+  }
   const answer: SenseModeAnswer = {
     axis: FRAME_AXES[drive][b] as FrameAxis,
     frequency: sm.frequency,

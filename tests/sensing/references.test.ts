@@ -86,6 +86,22 @@ describe('sense mode: damped oscillator H(ω) = 1 / (m (ω_s² − ω² + i ω �
   });
 });
 
+describe('sensing(mems): the sense-mode block', () => {
+  it('reports |H|, |G| and the displacement per unit yaw rate |H(ω)| · 2 m x ω of the Coriolis force (textbook forced oscillator)', () => {
+    const a = answerOf(example('mems-sensing'));
+    const sm = a.organs[0]?.senseMode;
+    const m = 4e-9, x = 4e-6, w = 2 * Math.PI * 15e3, ws = 2 * Math.PI * 15.3e3, Q = 800;
+    const H = 1 / (m * Math.hypot(ws * ws - w * w, (w * ws) / Q));
+    expect(sm?.transfer[0]?.magnitude).toBeCloseTo(H, 12);
+    expect(sm?.transfer[0]?.phase).toBeCloseTo(-Math.atan2((w * ws) / Q, ws * ws - w * w), 12);
+    expect(sm?.transfer[0]?.forceGain).toBeCloseTo(m * ws * ws * H, 10);
+    expect((sm?.perUnitRate.yaw[0]?.amplitude as number) / (H * 2 * m * x * w)).toBeCloseTo(1, 12);
+    expect(sm?.perUnitRate.roll[0]?.amplitude).toBe(0);
+    // The displacement at the scenario's 10 deg/s yaw is that line times the rate (no other load on the sense axis).
+    expect((sm?.displacement[1]?.amplitude as number) / (H * 2 * m * x * w * 10 * DEG)).toBeCloseTo(1, 12);
+  });
+});
+
 describe('Brownian noise-equivalent rate of a driven proof mass', () => {
   // Standard expression for the mechanical-thermal (Brownian) noise floor of a vibratory gyroscope
   // (Leland 2005, IEEE Sensors J. 5(3), 493–500; the form below from memory): the thermal force
