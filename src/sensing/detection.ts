@@ -121,13 +121,19 @@ export function organChannels(plan: ReadPlan, L: OrganLines, out?: Float64Array)
   return ch;
 }
 
-/** Row of the channel that detects body axis i best (largest |K_i|/√S, or |K_i| without noise); −1 if none. */
+/**
+ * Row of the channel that detects body axis i best (largest |K_i|/√S, or |K_i| without noise); −1
+ * if none. A scale factor below 1e-12 of the organ's largest counts as zero (rounding, not signal).
+ */
 export function bestChannel(ch: Float64Array, i: number): number {
   const n = ch.length / CH.size;
+  let top = 0;
+  for (let r = 0; r < n; r++) for (let j = 0; j < 3; j++) top = Math.max(top, Math.abs(ch[r * CH.size + CH.K + j] as number));
   let best = -1, merit = 0;
   for (let r = 0; r < n; r++) {
     const at = r * CH.size;
     const K = Math.abs(ch[at + CH.K + i] as number), S = ch[at + CH.psd] as number;
+    if (!(K > 1e-12 * top)) continue;
     const m = S > 0 ? K / Math.sqrt(S) : K;
     if (m > merit * (1 + 1e-12)) {
       merit = m;
