@@ -1,0 +1,69 @@
+/**
+ * server/start.ts as `npm start` runs it: listens on loopback, logs one line with the address,
+ * serves the page and the API, and closes cleanly on SIGTERM and SIGINT; a bad PORT is refused.
+ */
+import { spawn } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { PKG_VERSION, ROOT } from './helpers.js';
+
+const cwd = fileURLToPath(ROOT);
+
+interface Child {
+  address: Promise<string>;
+  exit: Promise<{ code: number | null; stdout: string; stderr: string }>;
+  kill: (signal: NodeJS.Signals) => void;
+}
+
+function start(env: Record<string, string>): Child {
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/start.ts'], { cwd, env: { ...process.env, BEATFORCE_CORS_ORIGINS: '', ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  let stdout = '', stderr = '';
+  let found: (a: string) => void = () => {};
+  const address = new Promise<string>((resolve) => {
+    found = resolve;
+  });
+  child.stdout.on('data', (d: Buffer) => {
+    stdout += d.toString();
+    const m = /listening on (http:\/\/[^\s]+)/.exec(stdout);
+    if (m) found(m[1] as string);
+  });
+  child.stderr.on('data', (d: Buffer) => {
+    stderr += d.toString();
+  });
+  const exit = new Promise<{ code: number | null; stdout: string; stderr: string }>((resolve) => child.on('exit', (code) => resolve({ code, stdout, stderr })));
+  return { address, exit, kill: (s) => child.kill(s) };
+}
+
+describe('server/start.ts', () => {
+  for (const signal of ['SIGTERM', 'SIGINT'] as const) {
+    it(`listens on 127.0.0.1 by default, logs one line, serves, and closes on ${signal}`, async () => {
+      const c = start({ PORT: '0', HOST: '' });
+      const base = await c.address;
+      expect(base).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/);
+      const health = await fetch(`${base}/health`);
+      expect(await health.json()).toEqual({ status: 'ok', version: PKG_VERSION });
+      const page = await fetch(`${base}/`);
+      expect(page.status).toBe(200);
+      expect(page.headers.get('content-type')).toBe('text/html; charset=utf-8');
+      c.kill(signal);
+      const { code, stdout, stderr } = await c.exit;
+      expect(code).toBe(0);
+      expect(stdout).toBe(`beatforce ${PKG_VERSION} listening on ${base} (page at /, API under /api/v1/)\nbeatforce: ${signal}, closed\n`);
+      expect(stderr).toBe('');
+    });
+  }
+
+  it('refuses a PORT that is not a port, with a message and exit code 1', async () => {
+    const c = start({ PORT: 'eighty' });
+    const { code, stderr } = await c.exit;
+    expect(code).toBe(1);
+    expect(stderr).toBe("beatforce: PORT 'eighty' is not a port; expected a whole number from 0 to 65535\n");
+  });
+
+  it('refuses a CORS allow-list entry that is not an origin', async () => {
+    const c = start({ PORT: '0', BEATFORCE_CORS_ORIGINS: 'lab.example' });
+    const { code, stderr } = await c.exit;
+    expect(code).toBe(1);
+    expect(stderr).toBe("beatforce: BEATFORCE_CORS_ORIGINS: CORS origin 'lab.example' is not an origin; expected scheme://host[:port], e.g. http://127.0.0.1:8888, or *\n");
+  });
+});
