@@ -177,10 +177,12 @@ function advance(pq: Float64Array, orders: number, delta: number, cs: Float64Arr
   }
 }
 
-function sumTotal(pq: Float64Array, orders: number): void {
+/** The total's lines: the sum of the components' (those flagged in `touched`; the others are zero). */
+function sumTotal(pq: Float64Array, orders: number, touched = 0x3f): void {
   const tot = TOTAL * N_AXES * orders * 2;
   pq.fill(0, tot, tot + N_AXES * orders * 2);
   for (let c = 0; c < TOTAL; c++) {
+    if ((touched & (1 << c)) === 0) continue;
     const at = c * N_AXES * orders * 2;
     for (let i = 0; i < N_AXES * orders * 2; i++) pq[tot + i] = (pq[tot + i] as number) + (pq[at + i] as number);
   }
@@ -247,9 +249,11 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   const w = W.terms;
   rotaryTerms(w, g.mass, g.moment, g.hinge, a0, t0, m);
   const step = K1 * 2;
+  let touched = 0;
   for (let i = 0; i < N_TERMS; i++) {
     const V0 = w[3 * i] as number, V1 = w[3 * i + 1] as number, V2 = w[3 * i + 2] as number;
     if (V0 === 0 && V1 === 0 && V2 === 0) continue;
+    touched |= 1 << (TERM_C[i] as number);
     const gi = TERM_G[i] as number, tau = TERM_TAU[i] as 0 | 1 | 2;
     const base = seriesSlot(W, gi, tau, amp, w0);
     const sc = seriesSlot(W, gi, TIMES_C[tau], amp, w0), ss = seriesSlot(W, gi, TIMES_S[tau], amp, w0);
@@ -257,7 +261,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
     addTerm(pq, (TERM_C[i] as number) * N_AXES * step, K1, b, L, base, sc, ss, V0, V1, V2, wa, wt, wn);
   }
   advance(pq, K1, delta, W.cs);
-  sumTotal(pq, K1);
+  sumTotal(pq, K1, touched);
   return out;
 }
 
