@@ -273,3 +273,46 @@ describe('sensingOf reuses its buffers safely', () => {
     expect(DEG).toBeGreaterThan(0);
   });
 });
+
+describe('sensing: series', () => {
+  it('quasi-static strain series are the core\'s organ-frame load series times the strain per newton; peaks are their largest magnitudes', () => {
+    const doc = withFields(example('fly-sensing'), { output: { series: true }, sampling: { pointsPerBeat: 128, beats: 2, harmonics: 8 } });
+    const a = answerOf(doc);
+    const f = forces(doc);
+    if (!f.ok) throw new Error('forces');
+    for (const [oi, organ] of a.organs.entries()) {
+      const st = organ.strain;
+      const loads = f.answer.organs[oi]?.series?.loads.total;
+      expect(st?.series?.time.length).toBe(256);
+      for (const [axis, strainAxis] of [['radial', 'axial'], ['tangential', 'inPlane'], ['normal', 'outOfPlane']] as const) {
+        const F = loads?.[axis] as number[];
+        const e = st?.series?.[strainAxis] as number[];
+        const g = st?.perLoad[strainAxis] as number;
+        for (let j = 0; j < 256; j += 17) expect(e[j]).toBeCloseTo(g * (F[j] as number), 18);
+        expect(st?.peak?.[strainAxis]).toBeCloseTo(Math.max(...F.map((x) => Math.abs(g * x))), 18);
+      }
+    }
+  });
+
+  it('with a sense mode on a rotary organ, the out-of-plane strain follows the spring force: strain per newton × G(kω) × load line', () => {
+    const fly = example('fly-sensing');
+    const doc = withFields(fly, { organ: { ...(fly.organ as object), senseMode: { frequency: '500 Hz', quality: 8, mass: '6 ug' } }, output: { series: true } });
+    const a = answerOf(doc);
+    const f = forces(doc);
+    if (!f.ok) throw new Error('forces');
+    const st = a.organs[0]?.strain;
+    expect(st?.dynamic).toBe('outOfPlane');
+    for (let k = 1; k <= 8; k++) {
+      const F = f.answer.organs[0]?.harmonics.find((l) => l.component === 'total' && l.axis === 'normal' && l.order === k);
+      const r = (k * 180) / 500;
+      const G = 1 / Math.hypot(1 - r * r, r / 8), lag = Math.atan2(r / 8, 1 - r * r);
+      const e = st?.harmonics.find((l) => l.axis === 'outOfPlane' && l.order === k);
+      expect(e?.amplitude).toBeCloseTo(Math.abs(st?.perLoad.outOfPlane as number) * G * (F?.amplitude ?? 0), 16);
+      if ((F?.amplitude ?? 0) > 1e-12) expect(Math.cos((e?.phase ?? 0) - ((F?.phase ?? 0) + Math.PI - lag))).toBeCloseTo(1, 9);
+    }
+    // The sense displacement series is the sum of its lines (t = 0: Σ A_k cos ψ_k).
+    const sm = a.organs[0]?.senseMode;
+    const x0 = sm?.displacement.reduce((s, l) => s + l.amplitude * Math.cos(l.phase), 0) ?? NaN;
+    expect(sm?.series?.displacement[0]).toBeCloseTo(x0, 18);
+  });
+});
