@@ -11,8 +11,8 @@ export interface Example {
   name: string;
   description: string;
   doc: unknown;
-  /** The document as served (its own text, key order kept). */
-  text: string;
+  /** The document as served (compact JSON, key order kept). */
+  text: Buffer;
   hash: string;
 }
 
@@ -34,7 +34,7 @@ export function loadExamples(dir: string): Example[] {
     }
     if (doc === null || typeof doc !== 'object' || !('organ' in doc)) continue;
     const d = (doc as { description?: unknown }).description;
-    out.push({ name: f.slice(0, -5), description: typeof d === 'string' ? d : '', doc, text: `${JSON.stringify(doc)}\n`, hash: inputHash(doc) });
+    out.push({ name: f.slice(0, -5), description: typeof d === 'string' ? d : '', doc, text: Buffer.from(`${JSON.stringify(doc)}\n`), hash: inputHash(doc) });
   }
   return out;
 }

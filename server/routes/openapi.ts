@@ -1,8 +1,9 @@
 /** GET /api/v1/openapi.json: the OpenAPI 3 document of every route. */
 import { defineRoute } from '../route.js';
 
-export const openApiRoute = (document: () => Record<string, unknown>) =>
-  defineRoute({
+export function openApiRoute(document: () => Record<string, unknown>) {
+  let text: Buffer | undefined;
+  return defineRoute({
     method: 'GET',
     url: '/openapi.json',
     operationId: 'openapi',
@@ -10,6 +11,8 @@ export const openApiRoute = (document: () => Record<string, unknown>) =>
     tags: ['service'],
     responses: { 200: { description: 'the OpenAPI document' } },
     handler(_request, reply) {
-      reply.send(document());
+      text ??= Buffer.from(JSON.stringify(document()));
+      reply.type('application/json; charset=utf-8').send(text);
     },
   });
+}
