@@ -9,10 +9,12 @@
 import type { Suite } from './run.js';
 import { coreSuite } from './core.js';
 import { sensingSuite } from './sensing.js';
+import { serviceSuite } from './service.js';
 import { turnSuite } from './turn.js';
 
 export const SUITES: readonly Suite[] = [
   coreSuite,
   sensingSuite,
   turnSuite,
+  serviceSuite,
 ];
