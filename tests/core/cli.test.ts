@@ -1,0 +1,128 @@
+/**
+ * The command line (`beatforce forces`), run through main() with a fake Io: the same answer as the
+ * library, CSV tables, help, and the exit codes and messages for bad input, limits and bad files.
+ */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { COMMANDS } from '../../cli/commands/index.js';
+import type { Io } from '../../cli/io.js';
+import { main } from '../../cli/main.js';
+import { forces } from '../../src/index.js';
+
+const example = (name: string) => new URL(`../../examples/${name}.json`, import.meta.url).pathname;
+
+function cli(argv: string[], stdin = ''): { code: number; out: string; err: string } {
+  let out = '', err = '';
+  const io: Io = { out: (t) => (out += t), err: (t) => (err += t), stdin: () => stdin };
+  const code = main(argv, io);
+  return { code, out, err };
+}
+
+const dir = mkdtempSync(join(tmpdir(), 'beatforce-cli-'));
+const file = (name: string, text: string) => {
+  const p = join(dir, name);
+  writeFileSync(p, text);
+  return p;
+};
+const organ = { mass: '6 ug', arm: '0.85 mm', frequency: '180 Hz', amplitude: '80 deg', rest: [0, 1, 0], normal: [1, 0, 0] };
+
+describe('beatforce forces FILE', () => {
+  it('prints the JSON answer of the library forces() for every shipped example', () => {
+    for (const name of ['fly-tilted-stroke', 'mems-tuning-fork', 'measured-stroke']) {
+      const r = cli(['forces', example(name)]);
+      expect(r.code, r.err).toBe(0);
+      const lib = forces(JSON.parse(readFileSync(example(name), 'utf8')));
+      if (!lib.ok) throw new Error(name);
+      expect(JSON.parse(r.out)).toEqual(JSON.parse(JSON.stringify(lib.answer)));
+      expect(r.err).toBe(lib.answer.warnings.map((w) => `warning: ${w}\n`).join(''));
+    }
+  });
+
+  it('reads standard input for "-", and --compact prints one line', () => {
+    const text = readFileSync(example('fly-tilted-stroke'), 'utf8');
+    const r = cli(['forces', '-', '--compact'], text);
+    expect(r.code).toBe(0);
+    expect(r.out.trimEnd().split('\n')).toHaveLength(1);
+    expect(JSON.parse(r.out)).toEqual(JSON.parse(cli(['forces', example('fly-tilted-stroke')]).out));
+  });
+
+  it('--format csv prints the harmonic table: a header with units and one row per organ, component, axis and order', () => {
+    const r = cli(['forces', example('fly-tilted-stroke'), '--format', 'csv']);
+    expect(r.code).toBe(0);
+    const rows = r.out.split('\r\n');
+    expect(rows.pop()).toBe(''); // CRLF after the last row (RFC 4180)
+    expect(rows[0]).toBe('side,role,component,axis,order,amplitude_N,phase_rad');
+    expect(rows).toHaveLength(1 + 2 * 7 * 6 * 9);
+    const lib = forces(JSON.parse(readFileSync(example('fly-tilted-stroke'), 'utf8')));
+    if (!lib.ok) throw new Error('fly');
+    const l = lib.answer.organs[1]!.harmonics.find((x) => x.component === 'coriolis' && x.axis === 'normal' && x.order === 2)!;
+    expect(rows).toContain(`left,mirror,coriolis,normal,2,${l.amplitude},${l.phase}`);
+  });
+
+  it('--format csv --series prints the load series: one row per organ and sample, a column per component and axis', () => {
+    const r = cli(['forces', example('mems-tuning-fork'), '--format=csv', '--series']);
+    expect(r.code).toBe(0);
+    const rows = r.out.trimEnd().split('\r\n');
+    const header = rows[0]!.split(',');
+    expect(header.slice(0, 4)).toEqual(['side', 'role', 'time_s', 'stroke_m']);
+    expect(header).toHaveLength(4 + 7 * 6);
+    expect(header).toContain('coriolis_sense_N');
+    expect(rows).toHaveLength(1 + 2 * 64); // two organs × 64 points × 1 beat
+    expect(rows.every((row) => row.split(',').length === header.length)).toBe(true);
+  });
+
+  it('--series without --format csv, an unknown option or a bad format is a usage error (exit 1)', () => {
+    expect(cli(['forces', example('fly-tilted-stroke'), '--series'])).toMatchObject({ code: 1, out: '' });
+    expect(cli(['forces', example('fly-tilted-stroke'), '--format', 'xml']).err).toMatch(/^beatforce forces: --format xml: expected json or csv\nusage: beatforce forces FILE/);
+    expect(cli(['forces', example('fly-tilted-stroke'), '--colour']).err).toMatch(/unknown option --colour/);
+    expect(cli(['forces']).err).toMatch(/a scenario FILE \(or - for standard input\) is required/);
+  });
+});
+
+describe('beatforce --help and unknown commands', () => {
+  it('--help lists every command, with exit code 0; no command prints help with exit 1', () => {
+    const r = cli(['--help']);
+    expect(r.code).toBe(0);
+    for (const c of COMMANDS) expect(r.out).toContain(`  ${c.name}`);
+    expect(r.out).toMatch(/Exit codes: 0 done, 1 usage error, 2 invalid scenario, 3 over a limit\./);
+    expect(cli([])).toMatchObject({ code: 1, out: r.out });
+  });
+
+  it('forces --help prints the command usage; an unknown command exits 1', () => {
+    const h = cli(['forces', '--help']);
+    expect(h.code).toBe(0);
+    expect(h.out).toMatch(/^usage: beatforce forces FILE\|- \[--format json\|csv\] \[--series\] \[--compact\]/);
+    const u = cli(['force', 'x.json']);
+    expect(u.code).toBe(1);
+    expect(u.err).toMatch(/^beatforce: unknown command 'force'/);
+  });
+});
+
+describe('beatforce forces: refusals', () => {
+  it('an invalid scenario exits 2 and names every field, as the service does', () => {
+    const r = cli(['forces', file('bad.json', JSON.stringify({ organ: { ...organ, mass: '12 mV', rest: [0, 0, 0] } }))]);
+    expect(r.code).toBe(2);
+    expect(r.out).toBe('');
+    expect(r.err).toBe(
+      "invalid scenario:\n  organ.mass: '12 mV' is not a mass; expected a mass: a number in kg or a string such as '7 ug'\n  organ.rest: [0,0,0] has zero length; expected a direction [x, y, z] in body axes\n",
+    );
+  });
+
+  it('work over a limit exits 3 and names the limit', () => {
+    const r = cli(['forces', file('big.json', JSON.stringify({ organ, sampling: { pointsPerBeat: 8192, beats: 16 } }))]);
+    expect(r.code).toBe(3);
+    expect(r.err).toBe('over a limit:\n  sampling.beats: 8192 points × 16 beats = 131072 samples is over the limit of 65536 samples per request\n');
+  });
+
+  it('an unreadable file or bad JSON exits 2 with the reason', () => {
+    const missing = join(dir, 'missing.json');
+    expect(cli(['forces', missing])).toEqual({ code: 2, out: '', err: `invalid scenario:\n  (file): cannot read ${missing}: ENOENT\n` });
+    expect(cli(['forces', dir]).err).toBe(`invalid scenario:\n  (file): cannot read ${dir}: EISDIR\n`);
+    const r = cli(['forces', file('broken.json', '{ "organ": ')]);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/^invalid scenario:\n {2}\(document\): is not valid JSON: /);
+    expect(cli(['forces', '-'], 'not json').code).toBe(2);
+  });
+});
