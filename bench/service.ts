@@ -3,12 +3,20 @@
  * process (logger off, as `npm start` runs it):
  *   - GET /health and POST /api/v1/sensing (a shipped example), 32 connections, in the same run:
  *     sensing at ≥ 0.3 × the health rate, p99 latency < 20 ms;
- *   - POST /api/v1/forces for the default example (for reference);
+ *   - POST /api/v1/forces for the default example, for reference;
  *   - a 10,000-point rate sweep end to end over HTTP (fetch, JSON answer): < 100 ms (median).
- * autocannon runs in a worker thread, so the client does not share the server's event loop.
+ *
+ * autocannon runs as a child process, so this process's CPU time is the server's alone: each row
+ * gives the wall-clock rate autocannon saw and the rate per CPU-second of the server (requests /
+ * server CPU seconds). Like the rest of the bench, the verdict on rates uses CPU time, which other
+ * work on a shared machine does not inflate; latency is wall-clock by nature and is shown with
+ * the machine's load average.
  */
-import { existsSync, readFileSync } from 'node:fs';
-import autocannon from 'autocannon';
+import { execFile } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { buildApp } from '../server/app.js';
 import type { BenchRow, Suite } from './run.js';
 
@@ -27,47 +35,65 @@ function root(): URL {
 }
 
 const exampleText = (name: string): string => readFileSync(new URL(`examples/${name}.json`, root()), 'utf8');
+const AUTOCANNON = createRequire(import.meta.url).resolve('autocannon/autocannon.js');
 
 interface Load {
+  /** Requests per wall-clock second (autocannon's average). */
   rate: number;
-  p99: number;
+  /** Requests per CPU-second of the server (this process). */
+  cpuRate: number;
   p50: number;
+  p99: number;
   errors: number;
   non2xx: number;
   requests: number;
 }
 
-async function load(url: string, opts: { method?: 'GET' | 'POST'; body?: string }): Promise<Load> {
-  const r = await autocannon({
-    url,
-    connections: CONNECTIONS,
-    duration: SECONDS,
-    method: opts.method ?? 'GET',
-    ...(opts.body ? { body: opts.body, headers: { 'content-type': 'application/json' } } : {}),
-    workers: 1,
+const cpuSeconds = (): number => {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+};
+
+/** One autocannon run in a child process; the server keeps this process's event loop to itself. */
+async function load(url: string, opts: { method?: 'GET' | 'POST'; bodyFile?: string } = {}): Promise<Load> {
+  const args = [AUTOCANNON, '-j', '-c', String(CONNECTIONS), '-d', String(SECONDS), '-m', opts.method ?? 'GET'];
+  if (opts.bodyFile) args.push('-i', opts.bodyFile, '-H', 'content-type=application/json');
+  args.push(url);
+  const cpu0 = cpuSeconds();
+  const stdout = await new Promise<string>((resolve, reject) => {
+    execFile(process.execPath, args, { maxBuffer: 16 * 1024 * 1024 }, (error, out) => (error ? reject(error) : resolve(out)));
   });
-  return { rate: r.requests.average, p99: r.latency.p99, p50: r.latency.p50, errors: r.errors + r.timeouts, non2xx: r.non2xx, requests: r.requests.total };
+  const cpu = cpuSeconds() - cpu0;
+  const r = JSON.parse(stdout) as { requests: { average: number; total: number }; latency: { p50: number; p99: number }; errors: number; timeouts: number; non2xx: number };
+  return { rate: r.requests.average, cpuRate: r.requests.total / cpu, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts, non2xx: r.non2xx, requests: r.requests.total };
 }
 
-const describe = (l: Load): string => `${Math.round(l.rate).toLocaleString('en-US')} req/s, p50 ${l.p50} ms, p99 ${l.p99} ms, ${l.requests} requests, ${l.errors} errors, ${l.non2xx} non-2xx`;
+const rate = (x: number): string => Math.round(x).toLocaleString('en-US');
+const describe = (l: Load): string => `${rate(l.rate)} req/s wall, ${rate(l.cpuRate)} req per server CPU-s, p50 ${l.p50} ms, p99 ${l.p99} ms, ${l.requests} requests, ${l.errors} errors, ${l.non2xx} non-2xx`;
 
 /** Median wall time of a full HTTP round trip (request, compute, serialise, receive, JSON.parse). */
-async function roundTrip(url: string, body: string, runs = 15): Promise<{ median: number; bytes: number; points: number }> {
+async function roundTrip(url: string, body: string, runs = 15): Promise<{ median: number; cpu: number; bytes: number; points: number }> {
   const times: number[] = [];
+  const cpus: number[] = [];
   let bytes = 0, points = 0;
   for (let i = 0; i < runs + 3; i++) {
     const t0 = performance.now();
+    const c0 = cpuSeconds();
     const res = await fetch(url, { method: 'POST', body, headers: { 'content-type': 'application/json' } });
     const text = await res.text();
     const json = JSON.parse(text) as { points?: number };
     const dt = (performance.now() - t0) / 1000;
+    const dc = cpuSeconds() - c0;
     if (res.status !== 200) throw new Error(`sweep answered ${res.status}: ${text.slice(0, 300)}`);
-    if (i >= 3) times.push(dt);
+    if (i >= 3) {
+      times.push(dt);
+      cpus.push(dc);
+    }
     bytes = text.length;
     points = json.points ?? 0;
   }
-  times.sort((a, b) => a - b);
-  return { median: times[Math.floor(times.length / 2)] as number, bytes, points };
+  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] as number;
+  return { median: median(times), cpu: median(cpus), bytes, points };
 }
 
 export const serviceSuite: Suite = {
@@ -77,42 +103,46 @@ export const serviceSuite: Suite = {
     await app.listen({ host: '127.0.0.1', port: 0 });
     const address = app.server.address();
     const base = typeof address === 'object' && address ? `http://127.0.0.1:${address.port}` : '';
+    const dir = mkdtempSync(join(tmpdir(), 'beatforce-bench-'));
     const rows: BenchRow[] = [];
     try {
-      const sensingExample = ['fly-sensing', 'mems-sensing', 'fly-tilted-stroke'].find((n) => existsSync(new URL(`examples/${n}.json`, root()))) as string;
-      const probe = await fetch(`${base}/api/v1/sensing`, { method: 'POST', body: exampleText(sensingExample), headers: { 'content-type': 'application/json' } });
-      const hasSensing = probe.status === 200;
-      await probe.text();
+      const sensingExample = 'fly-sensing';
+      const sensingFile = join(dir, 'sensing.json');
+      writeFileSync(sensingFile, exampleText(sensingExample));
+      const forcesFile = join(dir, 'forces.json');
+      writeFileSync(forcesFile, exampleText('fly-tilted-stroke'));
 
-      const health = await load(`${base}/health`, {});
-      rows.push({ name: `GET /health · ${CONNECTIONS} connections, ${SECONDS} s`, perEval: 1 / health.rate, note: describe(health), pass: health.errors === 0 && health.non2xx === 0 });
-      if (hasSensing) {
-        const sensing = await load(`${base}/api/v1/sensing`, { method: 'POST', body: exampleText(sensingExample) });
-        const ratio = sensing.rate / health.rate;
-        rows.push({
-          name: `POST /api/v1/sensing (${sensingExample}) · rate vs health`,
-          perEval: 1 / sensing.rate,
-          target: 1 / (RATIO_TARGET * health.rate),
-          baseline: { name: 'GET /health', perEval: 1 / health.rate },
-          note: `${(ratio).toFixed(2)} of the health rate (target ≥ ${RATIO_TARGET}); ${describe(sensing)}`,
-        });
-        rows.push({ name: `POST /api/v1/sensing · p99 latency`, note: `p99 ${sensing.p99} ms (target < ${P99_TARGET_MS} ms); errors ${sensing.errors}, non-2xx ${sensing.non2xx}`, pass: sensing.p99 < P99_TARGET_MS && sensing.errors === 0 && sensing.non2xx === 0 });
-      } else {
-        rows.push({ name: 'POST /api/v1/sensing', note: `not measured: the route answered ${probe.status} (sensing is not wired into the service yet)`, pass: false });
-      }
-      const forcesBody = exampleText('fly-tilted-stroke');
-      const forcesLoad = await load(`${base}/api/v1/forces`, { method: 'POST', body: forcesBody });
-      rows.push({ name: 'POST /api/v1/forces (fly-tilted-stroke, series on) · reference', perEval: 1 / forcesLoad.rate, baseline: { name: 'GET /health', perEval: 1 / health.rate }, note: describe(forcesLoad), pass: forcesLoad.errors === 0 && forcesLoad.non2xx === 0 });
+      const health = await load(`${base}/health`);
+      rows.push({ name: `GET /health · ${CONNECTIONS} connections, ${SECONDS} s`, perEval: 1 / health.cpuRate, wall: 1 / health.rate, note: describe(health), pass: health.errors === 0 && health.non2xx === 0 });
+
+      const sensing = await load(`${base}/api/v1/sensing`, { method: 'POST', bodyFile: sensingFile });
+      rows.push({
+        name: `POST /api/v1/sensing (${sensingExample}) · rate vs health`,
+        perEval: 1 / sensing.cpuRate,
+        wall: 1 / sensing.rate,
+        target: 1 / (RATIO_TARGET * health.cpuRate),
+        baseline: { name: 'GET /health', perEval: 1 / health.cpuRate },
+        note: `${(sensing.cpuRate / health.cpuRate).toFixed(2)} of the health rate per CPU-s, ${(sensing.rate / health.rate).toFixed(2)} wall (target ≥ ${RATIO_TARGET}); ${describe(sensing)}`,
+      });
+      rows.push({
+        name: 'POST /api/v1/sensing · p99 latency (wall)',
+        note: `p99 ${sensing.p99} ms (target < ${P99_TARGET_MS} ms) at load average ${loadavg()[0]?.toFixed(2)}; errors ${sensing.errors}, non-2xx ${sensing.non2xx}`,
+        pass: sensing.p99 < P99_TARGET_MS && sensing.errors === 0 && sensing.non2xx === 0,
+      });
+
+      const forces = await load(`${base}/api/v1/forces`, { method: 'POST', bodyFile: forcesFile });
+      rows.push({ name: 'POST /api/v1/forces (fly-tilted-stroke, 384 kB answer) · reference', perEval: 1 / forces.cpuRate, wall: 1 / forces.rate, baseline: { name: 'GET /health', perEval: 1 / health.cpuRate }, note: describe(forces), pass: forces.errors === 0 && forces.non2xx === 0 });
 
       const sweepBody = JSON.stringify({
-        scenario: JSON.parse(forcesBody) as unknown,
+        scenario: JSON.parse(exampleText('fly-tilted-stroke')) as unknown,
         vary: [{ field: 'body.rate.yaw', from: '-2000 deg/s', to: '2000 deg/s', steps: 10_000 }],
         outputs: [{ line: { component: 'coriolis', axis: 'normal', order: 2 } }, { line: { component: 'total', axis: 'normal', order: 1, organ: 'mirror' }, value: 'phase' }],
       });
       const sweep = await roundTrip(`${base}/api/v1/sweep`, sweepBody);
-      rows.push({ name: `POST /api/v1/sweep · ${sweep.points}-point rate sweep, end to end`, perEval: sweep.median, target: SWEEP_TARGET, note: `median of 15 round trips, ${(sweep.bytes / 1024).toFixed(0)} kB JSON` });
+      rows.push({ name: `POST /api/v1/sweep · ${sweep.points}-point rate sweep, end to end`, perEval: sweep.cpu, wall: sweep.median, target: SWEEP_TARGET, note: `median of 15 round trips (client and server in this process), ${(sweep.bytes / 1024).toFixed(0)} kB JSON` });
     } finally {
       await app.close();
+      rmSync(dir, { recursive: true, force: true });
     }
     return rows;
   },
