@@ -15,7 +15,8 @@ import { buildPage, startService, type Running } from './server.js';
 
 /** Asynchronous: the service answers from this same process, so the event loop must stay free. */
 const run = promisify(execFile);
-const ARTIFACTS = join(import.meta.dirname, '..', '..', 'test-artifacts');
+const ROOT = join(import.meta.dirname, '..', '..');
+const ARTIFACTS = join(ROOT, 'test-artifacts');
 const CHROMIUM = '/usr/bin/chromium';
 const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
 
@@ -208,6 +209,15 @@ describe('the bench page in Chromium', () => {
     expect(await page.textContent('#version')).toBe(answer.body.version);
     await page.screenshot({ path: join(ARTIFACTS, 'bench-default-1280x800.png') });
     await page.screenshot({ path: join(ARTIFACTS, 'bench-default-full.png'), fullPage: true });
+
+    // Again with the service and the browser warm (the scenario now comes from the address).
+    const t1 = performance.now();
+    await page.reload({ waitUntil: 'load' });
+    await settled(0);
+    timings.warmReloadFromTestMs = Math.round(performance.now() - t1);
+    timings.warmFirstRenderInPageMs = Math.round(await bench<number>('firstRenderMs'));
+    expect(timings.warmFirstRenderInPageMs).toBeLessThan(5_000);
+    await expectPlotsMatch(answer.body, axis);
   });
 
   it('loads each shipped example and draws its answer', async () => {
@@ -320,7 +330,13 @@ describe('the bench page in Chromium', () => {
     const out = JSON.parse((await run('bash', ['-c', curl], { maxBuffer: 1 << 26 })).stdout) as Forces;
     const answer = await api<Forces>('forces', await pageDoc());
     expect(out.organs).toEqual(answer.body.organs);
-    const py = (await run('python3', ['-c', python], { maxBuffer: 1 << 26 })).stdout;
+    await page.selectOption('#request-route', 'sensing');
+    const sensingCurl = await page.inputValue('#request-curl');
+    expect(sensingCurl).toContain('/api/v1/sensing');
+    const sensingOut = JSON.parse((await run('bash', ['-c', sensingCurl], { maxBuffer: 1 << 26 })).stdout) as Json;
+    expect(sensingOut.organs).toEqual((await api<Json>('sensing', await pageDoc())).body.organs);
+    await page.selectOption('#request-route', 'forces');
+    const py = (await run('python3', ['-c', python], { maxBuffer: 1 << 26, env: { ...process.env, PYTHONPATH: join(ROOT, 'examples') } })).stdout;
     expect(py).toContain(answer.body.version);
     await page.screenshot({ path: join(ARTIFACTS, 'bench-copy-request.png') });
     await page.keyboard.press('Escape');

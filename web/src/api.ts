@@ -9,7 +9,6 @@ export type Reply<T> =
 export const API = '/api/v1';
 
 async function read<T>(res: Response, t0: number): Promise<Reply<T>> {
-  const ms = performance.now() - t0;
   const text = await res.text();
   let body: unknown;
   try {
@@ -17,6 +16,7 @@ async function read<T>(res: Response, t0: number): Promise<Reply<T>> {
   } catch {
     body = undefined;
   }
+  const ms = performance.now() - t0; // the whole round trip: request, answer, parse
   if (res.ok) return { ok: true, answer: body as T, ms };
   const b = (body ?? {}) as { error?: unknown; message?: unknown; issues?: unknown };
   const issues = Array.isArray(b.issues) ? (b.issues as Issue[]).filter((i) => i && typeof i.path === 'string') : [];

@@ -165,7 +165,7 @@ export class Editor {
       });
       control = h('div', { class: 'triple' }, ...inputs.map((inp, i) => h('span', { class: 'part' }, h('span', { class: 'axis-tag', 'aria-hidden': 'true' }, f.parts?.[i] ?? ''), inp)));
     } else {
-      const inp = h('input', { type: 'text', id, placeholder: f.example, autocomplete: 'off', spellcheck: 'false', inputmode: f.kind === 'int' ? 'numeric' : undefined, 'aria-describedby': describedBy });
+      const inp = h('input', { type: 'text', id, placeholder: typeof f.example === 'string' ? f.example : undefined, autocomplete: 'off', spellcheck: 'false', inputmode: f.kind === 'int' ? 'numeric' : undefined, 'aria-describedby': describedBy });
       inp.addEventListener('input', () => this.input(fv));
       inputs = [inp];
       control = inp;
@@ -244,6 +244,7 @@ export class Editor {
       gv.body.classList.toggle('block-off', !on);
     }
     for (const fv of this.fields) {
+      if (typeof fv.field.example === 'function') fv.inputs[0]?.setAttribute('placeholder', fv.field.example(this.doc));
       const blockOff = fv.group.block !== undefined && getAt(this.doc, fv.group.block.path) === undefined;
       fv.row.hidden = blockOff || fv.field.show?.(this.doc) === false;
     }

@@ -23,20 +23,21 @@ export function curlRequest(origin: string, route: string, doc: Doc): string {
   ].join('\n');
 }
 
-/** Python (standard library only, as examples/notebook_client.py) that reruns the same request. */
+/**
+ * Python for a notebook through the project's client (examples/notebook_client.py, standard
+ * library only): `call(base, path, body)` returns the parsed answer and the response headers.
+ */
 export function pythonRequest(origin: string, route: string, doc: Doc): string {
-  const json = JSON.stringify(doc, null, 2);
+  const json = JSON.stringify(doc, null, 2).replace(/\\/g, '\\\\').replace(/"""/g, '\\"\\"\\"');
   return [
+    '# needs examples/notebook_client.py on the path (or its `call` function pasted in a cell)',
     'import json',
-    'import urllib.request',
+    'from notebook_client import call',
     '',
     `BASE = ${JSON.stringify(origin)}`,
-    `scenario = json.loads(r"""${json.replace(/"""/g, '\\"\\"\\"')}""")`,
+    `scenario = json.loads("""${json}""")`,
     '',
-    `request = urllib.request.Request(BASE + "/api/v1/${route}", data=json.dumps(scenario).encode(),`,
-    '                                 headers={"content-type": "application/json"}, method="POST")',
-    'with urllib.request.urlopen(request) as response:',
-    '    answer = json.load(response)',
-    `print(answer["version"], answer.get("inputHash"))`,
+    `answer, headers = call(BASE, "/api/v1/${route}", scenario)`,
+    'print(answer["version"], answer["inputHash"])',
   ].join('\n');
 }

@@ -14,8 +14,8 @@ export interface Field {
   label: string;
   /** Paths whose issues are shown beside this field. */
   paths: string[];
-  /** Placeholder: an example value with its units. */
-  example?: string;
+  /** Placeholder: an example value with its units (it may depend on the document, e.g. the drive). */
+  example?: string | ((doc: Doc) => string);
   help?: string;
   options?: { value: string; label: string }[];
   /** Triple fields: labels of the three parts. */
@@ -48,7 +48,7 @@ const rotary = (d: Doc) => getAt(d, ['organ', 'drive']) !== 'linear';
 const linear = (d: Doc) => getAt(d, ['organ', 'drive']) === 'linear';
 
 /** A dimensional value typed as a unit string ("7 ug"); empty removes the key. */
-function quantity(path: string, label: string, example: string, extra: Partial<Field> = {}): Field {
+function quantity(path: string, label: string, example: string | ((doc: Doc) => string), extra: Partial<Field> = {}): Field {
   const p = P(path);
   return {
     id: path.replace(/\./g, '-'), kind: 'text', label, example, paths: [path],
@@ -169,7 +169,7 @@ const waveformField: Field = {
 
 /** Half stroke or peak-to-peak: one value, two possible keys, never both. */
 const strokeField: Field = {
-  id: 'organ-amplitude', kind: 'text', label: 'stroke', example: '80 deg', paths: ['organ.amplitude', 'organ.peakToPeak'],
+  id: 'organ-amplitude', kind: 'text', label: 'stroke', example: (d) => (linear(d) ? '6 um' : '80 deg'), paths: ['organ.amplitude', 'organ.peakToPeak'],
   help: 'half stroke (amplitude) or whole stroke (peak to peak), chosen beside',
   show: periodic,
   read: (d) => textOf(getAt(d, ['organ', 'peakToPeak']) ?? getAt(d, ['organ', 'amplitude'])),
@@ -205,7 +205,7 @@ const organ: Group = {
     strokeKindField,
     { ...integer('organ.waveform.triangle.rounding', 'rounding', '0.3', { show: (d) => waveKind(d) === 'rounded', help: 'share of the beat the reversals take (0–1]' }), kind: 'text' },
     jsonField(['organ', 'waveform'], 'waveform (JSON)', { show: (d) => waveKind(d) === 'json', id: 'organ-waveform-json', help: '{ "harmonics": [{ "order", "cos", "sin" }] } or { "samples": { "time", "angle" }, "harmonics": K }' }),
-    quantity('organ.mean', 'mean stroke', '0 deg', { show: (d) => getAt(d, ['organ', 'waveform', 'samples']) === undefined }),
+    quantity('organ.mean', 'mean stroke', (d) => (linear(d) ? '0 um' : '0 deg'), { show: (d) => getAt(d, ['organ', 'waveform', 'samples']) === undefined }),
     triple('organ.rest', 'arm at rest', '0, 1, 0', true, { show: rotary, help: 'unit direction in body axes (x fwd, y right, z down)' }),
     triple('organ.normal', 'stroke-plane normal', '0.89, 0, 0.45', true, { show: rotary, help: 'perpendicular to the arm at rest' }),
     triple('organ.driveAxis', 'drive axis', '0, 1, 0', true, { show: linear }),

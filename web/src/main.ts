@@ -21,6 +21,8 @@ import type { Doc, ForcesAnswer, Issue, Vec3 } from './types.js';
 
 interface Bench {
   version: string;
+  /** Milestones of the first render (ms since navigation start). */
+  marks: Record<string, number>;
   runs: number;
   idle: boolean;
   firstRenderMs?: number;
@@ -40,7 +42,7 @@ const DEFAULT_EXAMPLE = 'fly-tilted-stroke';
 const DEBOUNCE_MS = 250;
 
 const bench: Bench = {
-  version: __BEATFORCE_VERSION__, runs: 0, idle: false, answers: {}, issues: [], plots: plotRecords, doc: () => editor.current, timings: {},
+  version: __BEATFORCE_VERSION__, marks: { script: performance.now() }, runs: 0, idle: false, answers: {}, issues: [], plots: plotRecords, doc: () => editor.current, timings: {},
 };
 (window as unknown as { __bench: Bench }).__bench = bench;
 
@@ -76,7 +78,6 @@ const editor = new Editor(byId('editor'), () => schedule());
 let timer: ReturnType<typeof setTimeout> | undefined;
 let inflight: AbortController | undefined;
 let runId = 0;
-const t0 = performance.now();
 
 function schedule(): void {
   bench.idle = false;
@@ -210,7 +211,9 @@ async function run(): Promise<void> {
   setBusy(true, 'computing…');
   saveLocal(doc);
   void writeHash(doc, { axis: ui.axis.value, organ: ui.organ.value });
+  if (bench.firstRenderMs === undefined) bench.marks.forcesSent = performance.now();
   const f = await post<ForcesAnswer>('forces', doc, ctl.signal);
+  if (bench.firstRenderMs === undefined) bench.marks.forcesAnswered = performance.now();
   if (id !== runId) return;
   bench.timings.forces = f.ms;
   if (!f.ok) return finishWithIssues(f, doc);
@@ -218,7 +221,7 @@ async function run(): Promise<void> {
   editor.clearIssues();
   drawForces(f.answer);
   if (hasManeuver(doc)) ui.loadsNote.prepend('These beats are at the steady rate of body.rate; the maneuver is drawn under Maneuver. ');
-  if (bench.firstRenderMs === undefined) bench.firstRenderMs = performance.now() - t0;
+  if (bench.firstRenderMs === undefined) bench.firstRenderMs = performance.now(); // since navigation start
   const warnings = f.answer.warnings.map((w) => `Warning: ${w}`);
   showBanner(warnings.length ? 'warning' : '', warnings);
 
@@ -305,29 +308,45 @@ async function loadExample(name: string, quiet = false): Promise<Doc | undefined
   return r.answer;
 }
 
+/** The example the picker should show, whether or not the list has arrived yet. */
+let picked = '';
+function pick(name: string): void {
+  picked = name;
+  ui.example.value = [...ui.example.options].some((o) => o.value === name) ? name : '';
+}
+
 async function start(): Promise<void> {
-  // The list, the default example and the address are read at the same time.
-  const [list, fallbackDoc, fromAddress] = await Promise.all([get<ExampleList>('examples'), loadExample(DEFAULT_EXAMPLE, true), readHash()]);
-  const examples = list.ok ? list.answer.examples : [];
-  ui.example.replaceChildren(h('option', { value: '' }, examples.length ? '— pick an example —' : 'no examples'), ...examples.map((e) => h('option', { value: e.name }, e.name)));
-  for (const e of examples) descriptions.set(e.name, e.description);
-  const { doc: fromHash, view } = fromAddress;
+  // The example list only fills the picker: the first answer does not wait for it.
+  const listed = get<ExampleList>('examples').then((list) => {
+    const examples = list.ok ? list.answer.examples : [];
+    ui.example.replaceChildren(h('option', { value: '' }, examples.length ? '— pick an example —' : 'no examples'), ...examples.map((e) => h('option', { value: e.name }, e.name)));
+    for (const e of examples) descriptions.set(e.name, e.description);
+    pick(picked);
+    return examples;
+  });
+  const { doc: fromHash, view } = await readHash();
   if (view.organ) ui.organ.value = view.organ;
   let doc = fromHash ?? loadLocal();
   if (!doc) {
-    const first = examples[0]?.name;
-    doc = fallbackDoc ?? (first ? await loadExample(first) : undefined) ?? FALLBACK;
-    ui.example.value = fallbackDoc ? DEFAULT_EXAMPLE : (first ?? '');
+    doc = await loadExample(DEFAULT_EXAMPLE, true);
+    if (doc) pick(DEFAULT_EXAMPLE);
+    else {
+      const first = (await listed)[0]?.name;
+      doc = (first ? await loadExample(first) : undefined) ?? FALLBACK;
+      if (first) pick(first);
+    }
   }
+  bench.marks.documentReady = performance.now();
   syncAxes(getAt(doc, ['organ', 'drive']) === 'linear' ? 'linear' : 'rotary', view.axis);
   ui.exampleNote.textContent = typeof doc.description === 'string' ? doc.description : '';
   editor.load(doc);
-  await run();
+  await Promise.all([run(), listed]);
 }
 
 ui.example.addEventListener('change', async () => {
   const name = ui.example.value;
   if (!name) return;
+  picked = name;
   const doc = await loadExample(name);
   if (!doc) return;
   ui.exampleNote.textContent = descriptions.get(name) ?? '';
@@ -376,11 +395,18 @@ async function csv(table: 'harmonics' | 'series'): Promise<void> {
 byId('dl-csv').addEventListener('click', () => void csv('harmonics'));
 byId('dl-series').addEventListener('click', () => void csv('series'));
 
+const routeChoice = byId<HTMLSelectElement>('request-route');
+function fillRequests(): void {
+  const doc = editor.current;
+  ui.curl.value = curlRequest(location.origin, routeChoice.value, doc);
+  ui.python.value = pythonRequest(location.origin, routeChoice.value, doc);
+}
+routeChoice.addEventListener('change', fillRequests);
 byId('copy-request').addEventListener('click', () => {
   const doc = editor.current;
-  const route = hasManeuver(doc) ? 'turn' : 'forces';
-  ui.curl.value = curlRequest(location.origin, route, doc);
-  ui.python.value = pythonRequest(location.origin, route, doc);
+  routeChoice.querySelector<HTMLOptionElement>('option[value="turn"]')!.disabled = !hasManeuver(doc);
+  routeChoice.value = hasManeuver(doc) ? 'turn' : 'forces';
+  fillRequests();
   ui.dialog.showModal();
 });
 for (const [button, area] of [['copy-curl', ui.curl], ['copy-python', ui.python]] as const) {

@@ -129,7 +129,7 @@ export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: Sen
   const cond = sensing.pair?.conditionNumber;
   note.replaceChildren();
   note.textContent = [
-    'Curves: each organ’s SNR on its best line as the rate about one axis varies (the service’s sweep). Vertical marks: the smallest detectable rate of one organ (blue) and of the pair read together (crimson); the black tick is this scenario’s rate.',
+    'Curves: each organ’s SNR on its best line as the rate about one axis varies (the service’s sweep). Vertical marks: the smallest detectable rate of one organ (blue) and of the pair read together (crimson); the dotted line marked “now” is this scenario’s rate.',
     typeof cond === 'number' ? `Pair condition number ${num(cond)}.` : '',
     ...problems,
   ].filter(Boolean).join(' ');
