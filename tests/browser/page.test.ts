@@ -6,7 +6,7 @@
  */
 import { execFile } from 'node:child_process';
 import { promisify } from 'node:util';
-import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
@@ -162,6 +162,7 @@ async function expectTurnMatches(doc: Json): Promise<void> {
 }
 
 beforeAll(async () => {
+  if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium (apt-get install -y chromium) to run the browser tests`);
   const t0 = performance.now();
   const sizes = await buildPage();
   timings.buildMs = performance.now() - t0;
@@ -295,8 +296,23 @@ describe('the bench page in Chromium', () => {
     expect(JSON.parse((await page.getAttribute('#sketch', 'data-geometry')) ?? '{}').problem).toContain('organ.normal');
     await page.screenshot({ path: join(ARTIFACTS, 'bench-wrong-normal.png') });
 
+    // Work over a limit: 413, and the limit's message beside the field it names.
+    before = await runs();
+    await page.fill('#f-organ-normal', '0.906');
+    await page.fill('#f-organ-normal-1', '0');
+    await page.fill('#f-organ-normal-2', '0.423');
+    await page.fill('#f-sampling-pointsPerBeat', '100000');
+    await settled(before);
+    const over = await api<{ issues: { path: string; message: string }[] }>('forces', await pageDoc());
+    expect(over.status).toBe(413);
+    const limitMsg = over.body.issues.find((i) => i.path === 'sampling.pointsPerBeat')?.message ?? '';
+    expect(limitMsg).toContain('limit');
+    expect(await page.locator('[data-field="sampling-pointsPerBeat"] .issue').textContent()).toBe(limitMsg);
+    expect(await page.locator('[data-field="organ-normal"] .issue').textContent()).toBe('');
+
     provoking = false;
     before = await runs();
+    await page.fill('#f-sampling-pointsPerBeat', '256');
     await page.fill('#f-organ-normal', '0.906');
     await page.fill('#f-organ-normal-1', '0');
     await page.fill('#f-organ-normal-2', '0.423');
@@ -318,9 +334,10 @@ describe('the bench page in Chromium', () => {
     expect(series).toBe((await api<string>('forces', doc, '?format=csv&table=series')).text);
 
     const [jsonDownload] = await Promise.all([page.waitForEvent('download'), page.click('#dl-json')]);
-    const json = JSON.parse(readFileSync((await jsonDownload.path()) as string, 'utf8')) as Forces;
+    const json = JSON.parse(readFileSync((await jsonDownload.path()) as string, 'utf8')) as { forces: Forces; sensing: Json };
     const answer = await api<Forces>('forces', doc);
-    expect(json.organs).toEqual(answer.body.organs);
+    expect(json.forces.organs).toEqual(answer.body.organs);
+    expect(json.sensing.pair).toEqual((await api<Json>('sensing', doc)).body.pair);
   });
 
   it('copies the view as a curl request that reruns to the same answer', async () => {
@@ -374,7 +391,7 @@ describe('the bench page in Chromium', () => {
   it('raised no console errors except the refusals the tests provoked', () => {
     const unexpected = consoleErrors.filter((e) => {
       const m = /status of (\d+).*@ (\S+)/.exec(e);
-      return !(m && refused.some((r) => r.provoked && r.url === m[2] && String(r.status) === m[1] && r.status === 400 && r.url.includes('/api/v1/')));
+      return !(m && refused.some((r) => r.provoked && r.url === m[2] && String(r.status) === m[1] && (r.status === 400 || r.status === 413) && r.url.includes('/api/v1/')));
     });
     expect(unexpected).toEqual([]);
     expect(refused.filter((r) => !r.provoked)).toEqual([]);

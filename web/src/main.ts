@@ -380,9 +380,9 @@ const stem = () => {
 byId('dl-json').addEventListener('click', () => {
   const { forces, sensing, turn } = bench.answers;
   if (!forces) return showBanner('error', ['Nothing to download yet: the scenario has no accepted answer.']);
-  download(`${stem()}-forces.json`, `${JSON.stringify(forces, null, 1)}\n`, 'application/json');
-  if (sensing) download(`${stem()}-sensing.json`, `${JSON.stringify(sensing, null, 1)}\n`, 'application/json');
-  if (turn) download(`${stem()}-turn.json`, `${JSON.stringify(turn, null, 1)}\n`, 'application/json');
+  // One file (browsers hold back a second download): each answer exactly as the service sent it.
+  const answers = { forces, ...(sensing ? { sensing } : {}), ...(turn ? { turn } : {}) };
+  download(`${stem()}-answers.json`, `${JSON.stringify(answers, null, 1)}\n`, 'application/json');
 });
 
 async function csv(table: 'harmonics' | 'series'): Promise<void> {

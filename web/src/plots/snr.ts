@@ -77,7 +77,7 @@ export function drawDetection(host: HTMLElement, note: HTMLElement, sensing: Sen
     note.textContent = problems.length ? `No sensing answer: ${problems.join('; ')}` : 'No sensing answer.';
     return;
   }
-  const noisy = sensing.organs.some((o) => BODY_AXES.some((ax) => o.axes[ax]?.noise));
+  const noisy = sensing.organs.some((o) => BODY_AXES.some((ax) => (o.axes[ax]?.noise?.density ?? 0) > 0));
   if (!noisy) {
     const button = h('button', { type: 'button', class: 'small', id: 'add-noise' }, 'Set a readout noise');
     if (addNoise) button.addEventListener('click', addNoise);
