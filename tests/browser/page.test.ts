@@ -265,6 +265,48 @@ describe('the bench page in Chromium', () => {
     await expectPlotsMatch(answer.body, 'tangential');
   });
 
+  it('switches the drive and the optional blocks, keeping the document valid and the plots true', async () => {
+    let before = await runs();
+    await page.selectOption('#example', 'fly-tilted-stroke');
+    await settled(before);
+    const original = await pageDoc();
+
+    before = await runs();
+    await page.selectOption('#f-organ-drive', 'linear');
+    await settled(before);
+    const linear = await pageDoc();
+    const organ = linear.organ as Json;
+    expect(organ.drive).toBe('linear');
+    expect(organ.arm).toBeUndefined();
+    expect(organ.driveAxis).toBeDefined();
+    const answer = await api<Forces>('forces', linear);
+    expect(answer.status).toBe(200);
+    expect(await page.inputValue('#axis')).toBe('sense');
+    await expectPlotsMatch(answer.body, 'sense');
+
+    before = await runs();
+    await page.selectOption('#f-organ-drive', 'rotary');
+    await settled(before);
+    const back = await pageDoc();
+    expect({ ...back, organ: { ...(back.organ as Json), drive: undefined } }).toEqual({ ...original, organ: { ...(original.organ as Json), drive: undefined } });
+
+    // A maneuver switched on from its folded group: the turn panels appear with the service's numbers.
+    before = await runs();
+    await page.click('#group-maneuver > summary');
+    await page.check('#block-maneuver');
+    await settled(before);
+    const withTurn = await pageDoc();
+    expect((withTurn.body as Json).maneuver).toBeDefined();
+    expect(await page.isVisible('#card-turn')).toBe(true);
+    await expectTurnMatches(withTurn);
+    before = await runs();
+    await page.uncheck('#block-maneuver');
+    await settled(before);
+    expect(await page.isVisible('#card-turn')).toBe(false);
+    expect(Object.keys(await plots()).filter((k) => k.startsWith('turn-'))).toEqual([]);
+    expect(await pageDoc()).toEqual(original);
+  });
+
   it('shows the service’s issue beside the field it names, and clears it when fixed', async () => {
     provoking = true;
     let before = await runs();

@@ -47,7 +47,11 @@ export class Editor {
 
   load(doc: Doc): void {
     this.doc = clone(doc);
-    for (const g of this.groups) g.stash = undefined;
+    for (const g of this.groups) {
+      g.stash = undefined;
+      // Optional blocks the document uses are shown open; the others stay folded.
+      if (g.group.block) g.box.open = getAt(this.doc, g.group.block.path) !== undefined;
+    }
     this.refresh();
   }
 

@@ -260,7 +260,8 @@ async function run(): Promise<void> {
   drawDetection(ui.detection, ui.detectionNote, bench.answers.sensing, sweeps, problems, () => editor.patch(['sensor'], { readoutNoise: '2e-10 N / Hz^0.5', integration: '20 ms', threshold: 1 }));
   ui.turnCard.hidden = !turn;
   bench.answers.turn = turn?.ok ? turn.answer : undefined;
-  if (turn) {
+  if (!turn) drawTurn(ui.turn, ui.turnNote, undefined, ui.axis.value);
+  else {
     bench.timings.turn = turn.ms;
     drawTurn(ui.turn, ui.turnNote, turn.ok ? turn.answer : undefined, ui.axis.value, turn.ok ? undefined : describe(turn));
   }
