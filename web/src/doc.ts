@@ -49,3 +49,7 @@ export const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 /** Does an issue path (e.g. "organ.hinge[1]") fall under a field path (e.g. "organ.hinge")? */
 export const under = (issuePath: string, fieldPath: string): boolean =>
   issuePath === fieldPath || issuePath.startsWith(`${fieldPath}.`) || issuePath.startsWith(`${fieldPath}[`);
+
+/** JSON with one-space indents, but lists of plain numbers (or short quantities) kept on one line. */
+export const pretty = (v: unknown): string =>
+  JSON.stringify(v, null, 1).replace(/\[\s*((?:-?[\d.eE+-]+|"[^"\n]{0,16}")(?:,\s*(?:-?[\d.eE+-]+|"[^"\n]{0,16}"))*)\s*\]/g, (_m, inner: string) => `[${inner.replace(/,\n\s*/g, ', ')}]`); // JSON.stringify puts no newline inside a string

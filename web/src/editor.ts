@@ -2,7 +2,7 @@
  * The scenario editor: renders the field groups, writes what the user types into the document,
  * and shows the service's issues beside the field whose path they name.
  */
-import { clone, getAt, setAt, under } from './doc.js';
+import { clone, getAt, pretty, setAt, under } from './doc.js';
 import { h } from './dom.js';
 import { GROUPS, type Field, type Group } from './fields.js';
 import type { Doc, Issue, Json } from './types.js';
@@ -252,6 +252,6 @@ export class Editor {
       const blockOff = fv.group.block !== undefined && getAt(this.doc, fv.group.block.path) === undefined;
       fv.row.hidden = blockOff || fv.field.show?.(this.doc) === false;
     }
-    if (document.activeElement !== this.docText) this.docText.value = JSON.stringify(this.doc, null, 1);
+    if (document.activeElement !== this.docText) this.docText.value = pretty(this.doc);
   }
 }

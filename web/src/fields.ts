@@ -3,7 +3,7 @@
  * stalk, sense mode, sensor, sampling. A field reads its text from the document and writes it
  * back; the service checks every value (the page does not parse units).
  */
-import { getAt, setAt, type Path } from './doc.js';
+import { getAt, pretty, setAt, type Path } from './doc.js';
 import type { Doc, Json } from './types.js';
 
 export type FieldKind = 'text' | 'int' | 'triple' | 'select' | 'check' | 'json';
@@ -91,7 +91,7 @@ function jsonField(path: Path, label: string, extra: Partial<Field> = {}): Field
     id: `${path.join('-')}-json`, kind: 'json', label, paths: [path.join('.')],
     read: (d) => {
       const v = getAt(d, path);
-      return v === undefined ? '' : JSON.stringify(v, null, 1);
+      return v === undefined ? '' : pretty(v);
     },
     write: (d, v) => setAt(d, path, (v as string).trim() === '' ? undefined : (JSON.parse(v as string) as Json)),
     ...extra,
@@ -145,7 +145,7 @@ const waveformField: Field = {
     { value: 'sine', label: 'sine' },
     { value: 'triangle', label: 'triangle (rounded reversals)' },
     { value: 'rounded', label: 'triangle, set rounding' },
-    { value: 'json', label: 'harmonic series or measured trace (JSON)' },
+    { value: 'json', label: 'series or trace (JSON)' },
   ],
   read: waveKind,
   write: (d, v) => {

@@ -103,6 +103,15 @@ function syncAxes(drive: 'rotary' | 'linear', wanted?: string): void {
   ui.axis.value = (axes as readonly string[]).includes(keep) ? keep : drive === 'rotary' ? 'normal' : 'sense';
 }
 
+/** The stroke angles the organ sweeps: from the answer's stroke series, else from its amplitude. */
+function strokeRange(a: ForcesAnswer): [number, number] | undefined {
+  const stroke = a.organs[0]?.series?.stroke;
+  if (stroke?.length) return [Math.min(...stroke), Math.max(...stroke)];
+  const o = a.scenario.organ;
+  const half = o.amplitude ?? (o.peakToPeak === undefined ? undefined : o.peakToPeak / 2);
+  return half === undefined ? undefined : [(o.mean ?? 0) - half, (o.mean ?? 0) + half];
+}
+
 function sketchFromAnswer(a: ForcesAnswer): SketchGeometry {
   const o = a.scenario.organ;
   const names = o.drive === 'rotary' ? ['radial', 'tangential', 'normal'] : ['drive', 'sense', 'cross'];
@@ -110,7 +119,7 @@ function sketchFromAnswer(a: ForcesAnswer): SketchGeometry {
   return {
     drive: o.drive,
     arm: o.arm ?? 0,
-    halfStroke: o.amplitude ?? (o.peakToPeak === undefined ? undefined : o.peakToPeak / 2),
+    strokeRange: strokeRange(a),
     organs: a.organs.map((org) => ({
       side: org.side, role: org.role,
       hinge: (org.role === 'mirror' ? [hinge[0], -hinge[1], hinge[2]] : hinge) as Vec3,
@@ -135,7 +144,7 @@ function sketchFromDoc(doc: Doc, last: ForcesAnswer | undefined, issues: Issue[]
   const e2: Vec3 = rotaryDoc ? [b[1] * a[2] - b[2] * a[1], b[2] * a[0] - b[0] * a[2], b[0] * a[1] - b[1] * a[0]] : b;
   const hinge = (last?.scenario.organ.hinge ?? [0, 0, 0]) as Vec3;
   return {
-    drive: rotaryDoc ? 'rotary' : 'linear', arm: last?.scenario.organ.arm ?? 9e-4, halfStroke: last?.scenario.organ.amplitude,
+    drive: rotaryDoc ? 'rotary' : 'linear', arm: last?.scenario.organ.arm ?? 9e-4, strokeRange: last ? strokeRange(last) : undefined,
     organs: [{ side: 'as typed', role: 'specified', hinge, e1: a, e2, e3: rotaryDoc ? b : e2 }],
     problem: `organ.${bad.path.replace(/^organ\./, '')} refused: drawn as typed`,
   };
@@ -188,7 +197,9 @@ function drawSummary(): void {
       return h('tr', {}, h('th', { scope: 'row' }, ax), h('td', {}, one?.channel ? `${one.channel.axis} k=${one.channel.order}` : '–'), h('td', {}, rateText(one?.minimumRate)), h('td', {}, rateText(s.pair?.[ax]?.minimumRate)));
     });
     const read = so.read ? `${so.read.quantity} (${so.read.unit})` : '';
-    parts.push(h('table', { class: 'min-rates' }, h('caption', {}, `smallest detectable rate${read ? ` · reading ${read}` : ''}`), h('thead', {}, head), h('tbody', {}, ...body)));
+    const noisy = s.organs.some((o) => BODY_AXES.some((ax) => (o.axes[ax]?.noise?.density ?? 0) > 0));
+    const caption = noisy ? `smallest detectable rate${read ? ` · reading ${read}` : ''}` : 'best lines; no noise model, so no smallest detectable rate (set one under Sensor and detection)';
+    parts.push(h('table', { class: 'min-rates' }, h('caption', {}, caption), h('thead', {}, head), h('tbody', {}, ...body)));
   }
   ui.summary.replaceChildren(...parts);
 }

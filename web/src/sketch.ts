@@ -21,8 +21,8 @@ export interface SketchGeometry {
   organs: SketchOrgan[];
   /** Rotary: arm length (m). */
   arm: number;
-  /** Rotary: half stroke (rad); linear: half stroke (m). */
-  halfStroke?: number;
+  /** Rotary: the stroke angles swept, [lowest, highest] (rad). */
+  strokeRange?: [number, number];
   /** Set when the typed directions are refused (drawn as typed, in the warning colour). */
   problem?: string;
 }
@@ -82,8 +82,9 @@ export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName
       const on = (phi: number): Vec3 => add(o.hinge, add(mul(o.e1, L * Math.cos(phi)), mul(o.e2, L * Math.sin(phi))));
       const disc = Array.from({ length: 64 }, (_, i) => on((2 * Math.PI * i) / 64));
       const depth = dot(o.hinge, cam.toward);
-      const half = Math.min(Math.PI, g.halfStroke ?? 0);
-      const sweep = half > 0 ? [o.hinge, ...Array.from({ length: 33 }, (_, i) => on(-half + (2 * half * i) / 32))] : [];
+      const [lo, hi] = g.strokeRange ?? [0, 0];
+      const from = Math.max(lo, hi - 2 * Math.PI);
+      const sweep = hi > from ? [o.hinge, ...Array.from({ length: 33 }, (_, i) => on(from + ((hi - from) * i) / 32))] : [];
       const tip = on(0);
       const [tx, ty] = P(tip);
       const [nx, ny] = P(add(o.hinge, mul(o.e3, 0.7 * L)));

@@ -42,6 +42,7 @@ export interface SiScenario {
     arm?: number;
     amplitude?: number;
     peakToPeak?: number;
+    mean?: number;
     hinge: Vec3;
     mirror: boolean;
     rest?: Vec3;
