@@ -291,7 +291,9 @@ function finishWithIssues(f: Extract<Reply<ForcesAnswer>, { ok: false }>, doc: D
   const rest = editor.showIssues(f.issues);
   const n = f.issues.length;
   showBanner('error', [
-    n ? `The service refused the scenario (${n} ${n === 1 ? 'issue' : 'issues'}, shown beside ${n === 1 ? 'its field' : 'their fields'}). The plots show the last accepted scenario.` : `The service refused the request: ${f.error}`,
+    n
+      ? `The service refused the scenario (${n} ${n === 1 ? 'issue' : 'issues'}, shown beside ${n === 1 ? 'its field' : 'their fields'}). The plots show the last accepted scenario.`
+      : f.status < 0 ? `${f.error}. The plots show the last answer.` : `The service refused the request (HTTP ${f.status}): ${f.error}`,
     ...rest.map((i) => `${i.path}: ${i.message}`),
   ]);
   redrawSketch(sketchFromDoc(doc, bench.answers.forces, f.issues));
