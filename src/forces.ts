@@ -58,13 +58,17 @@ export interface OrganNumbers {
 
 const samples = (n: number): WaveSamples => ({ s: new Float64Array(n), v: new Float64Array(n), a: new Float64Array(n) });
 
-/** One beat of loads of the specified geometry under a constant motion (fresh arrays, owned by the caller). */
+/**
+ * One beat of loads of the specified geometry under a constant motion. The beat and the stroke
+ * samples are fresh arrays owned by the caller; the kinematics in between live in the workspace.
+ */
 export function sampleOrgan(g: Geometry, motion: Motion, n: number): { beat: LoadSeries; stroke: WaveSamples; deviation?: WaveSamples } {
   const table = beatTable(n);
+  const ws = sampledWorkspace(n);
   const stroke = sampleBeat(g.stroke, g.frequency, n, table, samples(n));
   const deviation = g.deviation ? sampleBeat(g.deviation, g.frequency, n, table, samples(n)) : undefined;
-  const k = kinematics(g, stroke, deviation, allocKinematics(n));
-  const beat = loads(k, constantMotion(motion), g.mass, allocLoads(n));
+  const k = kinematics(g, stroke, deviation, ws.kin);
+  const beat = loads(k, setMotion(ws.motion, motion), g.mass, allocLoads(n));
   return { beat, stroke, deviation };
 }
 
