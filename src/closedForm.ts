@@ -226,7 +226,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
 
   const W = workspace(L);
   const b = W.buf;
-  b.fill(0);
+  b.fill(0, 0, 6 * 2 * L); // the six τ series; every product series is written whole when first used
   W.ready.fill(0);
   const J = besselJ(amp, L, W.J), J2 = besselJ(2 * amp, L, W.J2);
   const slot = (i: number) => slotOf(L, i);
@@ -271,7 +271,7 @@ function linear(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   const L = K1;
   const W = workspace(L);
   const b = W.buf;
-  b.fill(0);
+  b.fill(0, 0, 8 * L); // the slots of 1, x, ẋ, ẍ
   const w = 2 * Math.PI * g.frequency;
   const ONE = 0, X = 2 * L, XD = 4 * L, XDD = 6 * L; // slots of 1, x, ẋ, ẍ
   b[ONE] = 1;
