@@ -60,7 +60,7 @@ const cpu = (): number => {
 const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] as number;
 
 /**
- * Time fn: warm up for `warmup` seconds, size a batch to last about `batch` seconds, then time
+ * Time fn: collect garbage, warm up for `warmup` seconds, size a batch to last about `batch` seconds, then time
  * `batches` batches and return the median time per call, in CPU time of this process (so that
  * other work on a shared machine does not count) and in wall-clock time. The result of fn is kept
  * in a sink so that the optimiser cannot drop the work.
@@ -68,6 +68,7 @@ const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floo
 export function measure(fn: () => unknown, opts: { warmup?: number; batch?: number; batches?: number } = {}): Timing {
   const { warmup = 0.3, batch = 0.03, batches = 21 } = opts;
   let sink: unknown;
+  forceGc(); // every case starts from a collected heap, not from the garbage of the one before
   const start = now();
   let calls = 0;
   while (now() - start < warmup || calls < 5) {
