@@ -60,15 +60,15 @@ const cpu = (): number => {
 const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] as number;
 
 /**
- * Time fn: collect garbage, warm up for `warmup` seconds, size a batch to last about `batch` seconds, then time
+ * Time fn: warm up for `warmup` seconds, size a batch to last about `batch` seconds, then time
  * `batches` batches and return the median time per call, in CPU time of this process (so that
  * other work on a shared machine does not count) and in wall-clock time. The result of fn is kept
- * in a sink so that the optimiser cannot drop the work.
+ * in a sink so that the optimiser cannot drop the work. (No collection is forced first: a forced
+ * full collection was seen to make the engine collect more often for seconds afterwards.)
  */
 export function measure(fn: () => unknown, opts: { warmup?: number; batch?: number; batches?: number } = {}): Timing {
   const { warmup = 0.3, batch = 0.03, batches = 21 } = opts;
   let sink: unknown;
-  forceGc(); // every case starts from a collected heap, not from the garbage of the one before
   const start = now();
   let calls = 0;
   while (now() - start < warmup || calls < 5) {
