@@ -5,73 +5,18 @@
  */
 import { z } from 'zod';
 import { type DimensionName, DIMENSIONS, toSI } from './units.js';
+import { quantity, quantityOneOf, show } from './quantity.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { dot, norm, type Vec3 } from './vec.js';
 import { DecimateSchema, ManeuverSchema } from './turn/schema.js';
+
+export { quantity, quantityOneOf } from './quantity.js';
 
 export interface Issue {
   path: string;
   message: string;
   /** Set when the issue is a limit on work per request rather than an invalid value. */
   limit?: LimitName;
-}
-
-const show = (v: unknown): string => {
-  if (typeof v === 'string') return `'${v}'`;
-  if (v === undefined) return 'nothing';
-  if (typeof v === 'number') return String(v);
-  const s = JSON.stringify(v);
-  return s === undefined ? String(v) : s.length > 40 ? `${s.slice(0, 37)}...` : s;
-};
-
-type Rule = 'positive' | 'nonNegative' | 'any';
-
-const hintFor = (accepted: readonly DimensionName[]): string => {
-  const first = DIMENSIONS[accepted[0] ?? 'dimensionless'];
-  return `expected ${accepted.map((n) => DIMENSIONS[n].name).join(' or ')}: a number in ${first.si} or a string such as '${first.example}'`;
-};
-
-const ruleMessage = (rule: Rule, v: unknown): string | undefined =>
-  rule === 'positive' ? `${show(v)} must be greater than zero` : rule === 'nonNegative' ? `${show(v)} must not be negative` : undefined;
-
-const breaks = (rule: Rule, x: number): boolean => (rule === 'positive' ? !(x > 0) : rule === 'nonNegative' ? x < 0 : false);
-
-/** A dimensional quantity: number (SI) or unit string, converted to an SI number. */
-export function quantity(dim: DimensionName, rule: Rule = 'any') {
-  const hint = hintFor([dim]);
-  return z
-    .union([z.number(), z.string()], { error: (iss) => (iss.input === undefined ? `is required; ${hint}` : `${show(iss.input)} is not a quantity; ${hint}`) })
-    .transform((v, ctx) => {
-      const r = toSI(v, [dim]);
-      if (!r.ok) {
-        ctx.addIssue({ code: 'custom', message: r.message });
-        return z.NEVER;
-      }
-      if (breaks(rule, r.value)) {
-        ctx.addIssue({ code: 'custom', message: ruleMessage(rule, v) ?? '' });
-        return z.NEVER;
-      }
-      return r.value;
-    });
-}
-
-/** A quantity that may come in one of several dimensions; the answer keeps which one it was. */
-export function quantityOneOf<D extends DimensionName>(dims: readonly D[], rule: Rule = 'any') {
-  const hint = hintFor(dims);
-  return z
-    .union([z.number(), z.string()], { error: (iss) => (iss.input === undefined ? `is required; ${hint}` : `${show(iss.input)} is not a quantity; ${hint}`) })
-    .transform((v, ctx) => {
-      const r = toSI(v, dims);
-      if (!r.ok) {
-        ctx.addIssue({ code: 'custom', message: r.message });
-        return z.NEVER;
-      }
-      if (breaks(rule, r.value)) {
-        ctx.addIssue({ code: 'custom', message: ruleMessage(rule, v) ?? '' });
-        return z.NEVER;
-      }
-      return { value: r.value, dimension: r.dimension as D };
-    });
 }
 
 const finite = z.number({ error: (iss) => `${show(iss.input)} is not a finite number` }).finite();

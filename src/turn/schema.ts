@@ -12,35 +12,8 @@
  */
 import { z } from 'zod';
 import { LIMITS } from '../limits.js';
-import { DIMENSIONS, toSI, type DimensionName } from '../units.js';
-
-const show = (v: unknown): string => {
-  if (typeof v === 'string') return `'${v}'`;
-  if (v === undefined) return 'nothing';
-  if (typeof v === 'number') return String(v);
-  const s = JSON.stringify(v);
-  return s === undefined ? String(v) : s.length > 40 ? `${s.slice(0, 37)}...` : s;
-};
-
-/** A quantity of one dimension (number in SI or unit string); `positive` refuses zero and below. */
-function quantity(dim: DimensionName, positive = false, what = '') {
-  const d = DIMENSIONS[dim];
-  const hint = `expected ${d.name}: a number in ${d.si} or a string such as '${d.example}'`;
-  return z
-    .union([z.number(), z.string()], { error: (iss) => (iss.input === undefined ? `is required; ${hint}` : `${show(iss.input)} is not a quantity; ${hint}`) })
-    .transform((v, ctx) => {
-      const r = toSI(v, [dim]);
-      if (!r.ok) {
-        ctx.addIssue({ code: 'custom', message: r.message });
-        return z.NEVER;
-      }
-      if (positive && !(r.value > 0)) {
-        ctx.addIssue({ code: 'custom', message: `${show(v)} must be greater than zero${what ? `; ${what}` : ''}` });
-        return z.NEVER;
-      }
-      return r.value;
-    });
-}
+import { quantity, show } from '../quantity.js';
+import { toSI, type DimensionName } from '../units.js';
 
 const finiteList = (name: string) =>
   z
@@ -98,7 +71,7 @@ const pulseTerm = z
   .strictObject({
     pulse: z.strictObject({
       peak: quantity('angularRate'),
-      duration: quantity('time', true, 'a pulse needs a duration such as \'60 ms\''),
+      duration: quantity('time', 'positive', 'a pulse needs a duration such as \'60 ms\''),
       start: quantity('time').default(0),
     }),
   })
@@ -108,7 +81,7 @@ const sineTerm = z
   .strictObject({
     sine: z.strictObject({
       amplitude: quantity('angularRate'),
-      frequency: quantity('frequency', true, 'a sine profile needs a frequency such as \'12 Hz\''),
+      frequency: quantity('frequency', 'positive', 'a sine profile needs a frequency such as \'12 Hz\''),
       phase: quantity('angle').default(0),
     }),
   })
@@ -136,7 +109,7 @@ const axisProfile = z.union(
 
 export const ManeuverSchema = z.strictObject(
   {
-    duration: quantity('time', true, 'the maneuver needs a duration such as \'200 ms\''),
+    duration: quantity('time', 'positive', 'the maneuver needs a duration such as \'200 ms\''),
     roll: axisProfile.optional(),
     pitch: axisProfile.optional(),
     yaw: axisProfile.optional(),
