@@ -68,3 +68,31 @@ export interface Command {
   usage: string;
   run: (argv: readonly string[], io: Io) => number;
 }
+
+type Answered<A> = { ok: true; answer: A } | { ok: false; issues: Issue[] };
+
+/**
+ * The shared body of the document commands (forces, sensing, turn): read FILE, compute, print the
+ * warnings to standard error and the answer as JSON, or as CSV (`--series` picks the series table
+ * where the command has one).
+ */
+export function answerDocument<A extends { warnings: string[] }>(
+  argv: readonly string[],
+  io: Io,
+  compute: (doc: unknown) => Answered<A>,
+  csv: { table: (a: A) => string; series?: (a: A) => string },
+): number {
+  const flags: Record<string, 'bool' | 'string'> = { format: 'string', compact: 'bool', ...(csv.series ? { series: 'bool' } : {}) };
+  const { positional, opts } = parseArgs(argv, flags);
+  const format = (opts.format as string | undefined) ?? 'json';
+  if (format !== 'json' && format !== 'csv') throw new UsageError(`--format ${format}: expected json or csv`);
+  if (opts.series && format !== 'csv') throw new UsageError('--series goes with --format csv');
+  const read = readDocument(positional[0], io);
+  if ('issues' in read) return reportIssues(read.issues, io);
+  const r = compute(read.doc);
+  if (!r.ok) return reportIssues(r.issues, io);
+  for (const w of r.answer.warnings) io.err(`warning: ${w}\n`);
+  if (format === 'csv') io.out(opts.series && csv.series ? csv.series(r.answer) : csv.table(r.answer));
+  else io.out(`${JSON.stringify(r.answer, null, opts.compact ? undefined : 2)}\n`);
+  return EXIT.ok;
+}

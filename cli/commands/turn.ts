@@ -1,6 +1,6 @@
 import { beatsCsv, turnSeriesCsv } from '../../src/turn/tables.js';
 import { turn } from '../../src/turn/turn.js';
-import { EXIT, parseArgs, readDocument, reportIssues, UsageError, type Command } from '../io.js';
+import { answerDocument, type Command } from '../io.js';
 
 export const turnCommand: Command = {
   name: 'turn',
@@ -16,17 +16,6 @@ export const turnCommand: Command = {
   Long runs: set output.decimate to { "every": k } or { "envelope": true } in the document,
   or output.series to false; the series are never cut short silently.`,
   run(argv, io) {
-    const { positional, opts } = parseArgs(argv, { format: 'string', series: 'bool', compact: 'bool' });
-    const format = (opts.format as string | undefined) ?? 'json';
-    if (format !== 'json' && format !== 'csv') throw new UsageError(`--format ${format}: expected json or csv`);
-    if (opts.series && format !== 'csv') throw new UsageError('--series goes with --format csv');
-    const read = readDocument(positional[0], io);
-    if ('issues' in read) return reportIssues(read.issues, io);
-    const r = turn(read.doc);
-    if (!r.ok) return reportIssues(r.issues, io);
-    for (const w of r.answer.warnings) io.err(`warning: ${w}\n`);
-    if (format === 'csv') io.out(opts.series ? turnSeriesCsv(r.answer) : beatsCsv(r.answer));
-    else io.out(`${JSON.stringify(r.answer, null, opts.compact ? undefined : 2)}\n`);
-    return EXIT.ok;
+    return answerDocument(argv, io, turn, { table: beatsCsv, series: turnSeriesCsv });
   },
 };
