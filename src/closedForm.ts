@@ -179,13 +179,18 @@ function advance(pq: Float64Array, orders: number, delta: number, cs: Float64Arr
 
 /** The total's lines: the sum of the components' (those flagged in `touched`; the others are zero). */
 function sumTotal(pq: Float64Array, orders: number, touched = 0x3f): void {
-  const tot = TOTAL * N_AXES * orders * 2;
-  pq.fill(0, tot, tot + N_AXES * orders * 2);
+  const span = N_AXES * orders * 2;
+  const tot = TOTAL * span;
+  let first = -1;
   for (let c = 0; c < TOTAL; c++) {
     if ((touched & (1 << c)) === 0) continue;
-    const at = c * N_AXES * orders * 2;
-    for (let i = 0; i < N_AXES * orders * 2; i++) pq[tot + i] = (pq[tot + i] as number) + (pq[at + i] as number);
+    const at = c * span;
+    if (first < 0) {
+      pq.copyWithin(tot, at, at + span);
+      first = c;
+    } else for (let i = 0; i < span; i++) pq[tot + i] = (pq[tot + i] as number) + (pq[at + i] as number);
   }
+  if (first < 0) pq.fill(0, tot, tot + span);
 }
 
 const TMP = 24;
