@@ -24,18 +24,66 @@ export function chooseFormat(query: { format?: Format }, accept: string | undefi
 }
 
 /*
- * Large bodies go out as Buffers, small ones as strings: measured with autocannon on loopback
- * (server CPU per request), a string was cheaper up to ~50 kB (a 24 kB sensing answer: ~65–100 µs
- * against ~100–130 µs for Buffer.from) and several times dearer from ~100 kB up (the 384 kB forces
- * answer: ~4.9 ms against ~1.6 ms).
+ * Large CSV bodies go out as Buffers, small ones as strings: measured with autocannon on loopback
+ * (server CPU per request), a string was cheaper up to ~50 kB and several times dearer from
+ * ~100 kB up. (JSON answers always go out as one Buffer, written by jsonBytes below.)
  */
 const BUFFER_FROM = 64 * 1024;
 const body = (text: string): string | Buffer => (text.length < BUFFER_FROM ? text : Buffer.from(text));
 
+/**
+ * Objects whose JSON never changes (frozen module constants such as the sensing conventions):
+ * their UTF-8 JSON is written once, when registered, and copied into each answer. This is not a
+ * cache of answers: nothing here depends on a request.
+ */
+const fixedJson = new WeakMap<object, Buffer>();
+
+const deepFreeze = (o: object): void => {
+  Object.freeze(o);
+  for (const v of Object.values(o)) if (v !== null && typeof v === 'object' && !Object.isFrozen(v)) deepFreeze(v as object);
+};
+
+/** Register constants that appear verbatim in answers; they are frozen so their JSON cannot go stale. */
+export function registerFixedJson(...objects: object[]): void {
+  for (const o of objects) {
+    deepFreeze(o);
+    fixedJson.set(o, Buffer.from(JSON.stringify(o)));
+  }
+}
+
+/**
+ * The bytes of `JSON.stringify(o)` for a plain object, written member by member into one UTF-8
+ * Buffer. Same bytes as JSON.stringify (members in Object.keys order, members whose value
+ * stringifies to nothing left out), cheaper on the wire: one string with a single character above
+ * U+00FF (a √ in a description or in the conventions) makes JSON.stringify write the whole answer
+ * as UTF-16 and the socket transcode it all; member by member, only that member is.
+ */
+export function jsonBytes(o: Record<string, unknown>): Buffer {
+  const parts: (string | Buffer)[] = [];
+  let bytes = 1;
+  let sep = '{';
+  for (const k of Object.keys(o)) {
+    const v = o[k];
+    const fixed = v !== null && typeof v === 'object' ? fixedJson.get(v) : undefined;
+    const text = fixed ?? JSON.stringify(v) as string | undefined;
+    if (text === undefined) continue;
+    const head = `${sep}${JSON.stringify(k)}:`;
+    sep = ',';
+    parts.push(head, text);
+    bytes += Buffer.byteLength(head) + (typeof text === 'string' ? Buffer.byteLength(text) : text.length);
+  }
+  if (parts.length === 0) return Buffer.from('{}');
+  const out = Buffer.allocUnsafe(bytes);
+  let at = 0;
+  for (const p of parts) at += typeof p === 'string' ? out.write(p, at) : p.copy(out, at);
+  out[at] = 0x7d; // }
+  return out;
+}
+
 /** Send a JSON answer with the version and input hash in the body (first) and as headers. */
 export function sendJson(reply: FastifyReply, hash: string, answer: object): FastifyReply {
   reply.header('x-input-hash', hash);
-  return reply.type('application/json; charset=utf-8').send(body(JSON.stringify({ version: VERSION, inputHash: hash, ...answer })));
+  return reply.type('application/json; charset=utf-8').send(jsonBytes({ version: VERSION, inputHash: hash, ...answer }));
 }
 
 /** Send a CSV table; the version and input hash travel as headers (the table stays plain CSV). */

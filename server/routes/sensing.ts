@@ -1,12 +1,14 @@
 /** POST /api/v1/sensing: scale factors, noise, SNR, minimum detectable rate, bias; the pair. */
 import { z } from 'zod';
-import { sensing, sensingCsv } from '../../src/sensing/index.js';
+import { CONVENTIONS, SENSING_UNITS, sensing, sensingCsv } from '../../src/sensing/index.js';
 import { sendIssues } from '../errors.js';
-import { chooseFormat, FormatSchema, sendCsv, sendJson } from '../format.js';
+import { chooseFormat, FormatSchema, registerFixedJson, sendCsv, sendJson } from '../format.js';
 import { inputHash } from '../hash.js';
 import { defineRoute } from '../route.js';
 import { errorResponses, stamp } from '../schemas.js';
 import { ScenarioBody } from './forces.js';
+
+registerFixedJson(CONVENTIONS, SENSING_UNITS);
 
 const rates = <T extends z.ZodType>(t: T) => z.strictObject({ roll: t, pitch: t, yaw: t });
 const num = z.number();
