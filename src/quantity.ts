@@ -27,24 +27,35 @@ const ruleMessage = (rule: Rule, v: unknown, why: string): string =>
 
 const breaks = (rule: Rule, x: number): boolean => (rule === 'positive' ? !(x > 0) : rule === 'nonNegative' ? x < 0 : false);
 
-/** A quantity that may come in one of several dimensions; the answer keeps which one it was. */
-export function quantityOneOf<D extends DimensionName>(dims: readonly D[], rule: Rule = 'any', why = '') {
-  const hint = hintFor(dims);
-  return z
-    .union([z.number(), z.string()], { error: (iss) => (iss.input === undefined ? `is required; ${hint}` : `${show(iss.input)} is not a quantity; ${hint}`) })
-    .transform((v, ctx) => {
-      const r = toSI(v, dims);
-      if (!r.ok) {
-        ctx.addIssue({ code: 'custom', message: r.message });
-        return z.NEVER;
-      }
-      if (breaks(rule, r.value)) {
-        ctx.addIssue({ code: 'custom', message: ruleMessage(rule, v, why) });
-        return z.NEVER;
-      }
-      return { value: r.value, dimension: r.dimension as D };
-    });
+/** The zod base of every quantity: a number (SI) or a unit string. */
+const numberOrString = (hint: string) =>
+  z.union([z.number(), z.string()], { error: (iss) => (iss.input === undefined ? `is required; ${hint}` : `${show(iss.input)} is not a quantity; ${hint}`) });
+
+/** Convert a number or unit string to SI, checking dimension and sign; undefined after an issue. */
+function convert<D extends DimensionName>(v: number | string, ctx: z.RefinementCtx, dims: readonly D[], rule: Rule, why: string): { value: number; dimension: D } | undefined {
+  const r = toSI(v, dims);
+  if (!r.ok) {
+    ctx.addIssue({ code: 'custom', message: r.message });
+    return undefined;
+  }
+  if (breaks(rule, r.value)) {
+    ctx.addIssue({ code: 'custom', message: ruleMessage(rule, v, why) });
+    return undefined;
+  }
+  return { value: r.value, dimension: r.dimension as D };
 }
 
-/** A dimensional quantity: number (SI) or unit string, converted to an SI number. */
-export const quantity = (dim: DimensionName, rule: Rule = 'any', why = '') => quantityOneOf([dim], rule, why).transform((q) => q.value);
+/** A quantity that may come in one of several dimensions; the answer keeps which one it was. */
+export function quantityOneOf<D extends DimensionName>(dims: readonly D[], rule: Rule = 'any', why = '') {
+  return numberOrString(hintFor(dims)).transform((v, ctx) => convert(v, ctx, dims, rule, why) ?? z.NEVER);
+}
+
+/**
+ * A dimensional quantity: number (SI) or unit string, converted to an SI number. One transform
+ * (not quantityOneOf's followed by a second that keeps the value): parsing a scenario runs this
+ * for every quantity field.
+ */
+export const quantity = (dim: DimensionName, rule: Rule = 'any', why = '') => {
+  const dims = [dim] as const;
+  return numberOrString(hintFor(dims)).transform((v, ctx) => convert(v, ctx, dims, rule, why)?.value ?? z.NEVER);
+};
