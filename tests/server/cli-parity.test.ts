@@ -4,12 +4,10 @@
  * byte for byte, and refusals list the same issues.
  */
 import { fileURLToPath } from 'node:url';
-import type { FastifyInstance } from 'fastify';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { main } from '../../cli/main.js';
 import type { Io } from '../../cli/io.js';
-import { buildApp } from '../../server/app.js';
-import { exampleText, JSON_HEADERS, ROOT } from './helpers.js';
+import { exampleText, JSON_HEADERS, ROOT, useApp } from './helpers.js';
 
 function cli(argv: string[], stdin = ''): { code: number; out: string; err: string } {
   let out = '', err = '';
@@ -20,16 +18,9 @@ function cli(argv: string[], stdin = ''): { code: number; out: string; err: stri
 
 const file = (name: string): string => fileURLToPath(new URL(`examples/${name}.json`, ROOT));
 
-let app: FastifyInstance;
-beforeAll(async () => {
-  app = buildApp({ webRoot: null });
-  await app.ready();
-});
-afterAll(async () => {
-  await app.close();
-});
+const app = useApp();
 
-const post = (url: string, payload: string) => app.inject({ method: 'POST', url, payload, headers: JSON_HEADERS });
+const post = (url: string, payload: string) => app().inject({ method: 'POST', url, payload, headers: JSON_HEADERS });
 
 describe('CLI and service give the same numbers', () => {
   for (const name of ['fly-tilted-stroke', 'mems-tuning-fork', 'measured-stroke']) {

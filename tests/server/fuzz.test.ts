@@ -5,20 +5,11 @@
  * and every 413 names its limit.
  */
 import fc from 'fast-check';
-import type { FastifyInstance } from 'fastify';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../server/app.js';
+import { describe, expect, it } from 'vitest';
 import { ERRORS } from '../../server/errors.js';
-import { example, JSON_HEADERS } from './helpers.js';
+import { example, JSON_HEADERS, useApp } from './helpers.js';
 
-let app: FastifyInstance;
-beforeAll(async () => {
-  app = buildApp({ webRoot: null });
-  await app.ready();
-});
-afterAll(async () => {
-  await app.close();
-});
+const app = useApp();
 
 const BASES = ['fly-tilted-stroke', 'mems-tuning-fork', 'measured-stroke', 'fly-sensing', 'mems-sensing', 'fly-saccade'].map(example);
 
@@ -135,7 +126,7 @@ describe('fuzz: random and malformed documents', () => {
       await fc.assert(
         fc.asyncProperty(scenarioDoc, async (doc) => {
           const payload = JSON.stringify(doc) ?? 'null';
-          const r = await app.inject({ method: 'POST', url: `/api/v1/${route}`, payload, headers: JSON_HEADERS });
+          const r = await app().inject({ method: 'POST', url: `/api/v1/${route}`, payload, headers: JSON_HEADERS });
           check(r.statusCode, r.body, JSON.parse(payload), route);
         }),
         { numRuns: runs },
@@ -147,7 +138,7 @@ describe('fuzz: random and malformed documents', () => {
     await fc.assert(
       fc.asyncProperty(sweepDoc, async (doc) => {
         const payload = JSON.stringify(doc) ?? 'null';
-        const r = await app.inject({ method: 'POST', url: '/api/v1/sweep', payload, headers: JSON_HEADERS });
+        const r = await app().inject({ method: 'POST', url: '/api/v1/sweep', payload, headers: JSON_HEADERS });
         check(r.statusCode, r.body, JSON.parse(payload), 'sweep');
       }),
       { numRuns: 600 },
@@ -169,7 +160,7 @@ describe('fuzz: random and malformed documents', () => {
         } catch {
           valid = false;
         }
-        const r = await app.inject({ method: 'POST', url, payload, headers: JSON_HEADERS });
+        const r = await app().inject({ method: 'POST', url, payload, headers: JSON_HEADERS });
         if (!valid) {
           expect(r.statusCode, payload).toBe(400);
           expect((r.json() as { error: string }).error).toBe('invalid_json');

@@ -1,6 +1,9 @@
 /** Shared helpers for the service tests. */
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
+import type { FastifyInstance } from 'fastify';
+import { afterAll, beforeAll } from 'vitest';
+import { buildApp } from '../../server/app.js';
 
 export const ROOT = new URL('../../', import.meta.url);
 
@@ -24,3 +27,22 @@ export function expectedHash(doc: unknown): string {
 export const wire = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
 export const JSON_HEADERS = { 'content-type': 'application/json' };
+
+/**
+ * The service (no page) built before the tests of the enclosing file or block and closed after
+ * them; call the returned function inside a test to get it.
+ */
+export function useApp(): () => FastifyInstance {
+  let app: FastifyInstance | undefined;
+  beforeAll(async () => {
+    app = buildApp({ webRoot: null });
+    await app.ready();
+  });
+  afterAll(async () => {
+    await app?.close();
+  });
+  return () => {
+    if (!app) throw new Error('the app is built in beforeAll; use it inside a test');
+    return app;
+  };
+}

@@ -5,13 +5,11 @@
  */
 import fc from 'fast-check';
 import { createRequire } from 'node:module';
-import type { FastifyInstance } from 'fastify';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../server/app.js';
+import { describe, expect, it } from 'vitest';
 import { SweepAnswerSchema } from '../../server/routes/sweep.js';
 import { forces, sensing, type Line } from '../../src/index.js';
 import { sweep, SWEEP_LIMITS, type SweepAnswer } from '../../src/sweep.js';
-import { example, expectedHash, JSON_HEADERS, PKG_VERSION } from './helpers.js';
+import { example, expectedHash, JSON_HEADERS, PKG_VERSION, useApp } from './helpers.js';
 
 const require = createRequire(import.meta.url);
 const { besselj } = require('bessel') as { besselj: (x: number, n: number) => number };
@@ -218,18 +216,11 @@ describe('sweep(request): refusals name the field', () => {
 });
 
 describe('POST /api/v1/sweep', () => {
-  let app: FastifyInstance;
-  beforeAll(async () => {
-    app = buildApp({ webRoot: null });
-    await app.ready();
-  });
-  afterAll(async () => {
-    await app.close();
-  });
+  const app = useApp();
   const request = { scenario: fly, vary: [{ field: 'body.rate.yaw', values: ['0 deg/s', '500 deg/s'] }], outputs: [{ line: { component: 'coriolis', axis: 'normal', order: 2 } }] };
 
   it('answers the table stamped with version and hash; JSON and CSV', async () => {
-    const r = await app.inject({ method: 'POST', url: '/api/v1/sweep', payload: request, headers: JSON_HEADERS });
+    const r = await app().inject({ method: 'POST', url: '/api/v1/sweep', payload: request, headers: JSON_HEADERS });
     expect(r.statusCode).toBe(200);
     const lib = ok(sweep(request));
     const yaw = direct(withRates(fly, { yaw: (500 * Math.PI) / 180 }), 0, 'coriolis', 'normal', 2).amplitude;
@@ -252,13 +243,13 @@ describe('POST /api/v1/sweep', () => {
     expect(Math.abs((lib.rows[0]?.[1] as number) - zero)).toBeLessThan(1e-9 * zero);
     expect(Math.abs((lib.rows[1]?.[1] as number) - yaw)).toBeLessThan(1e-9 * yaw);
     expect(() => SweepAnswerSchema.parse(r.json())).not.toThrow();
-    const csv = await app.inject({ method: 'POST', url: '/api/v1/sweep?format=csv', payload: request, headers: JSON_HEADERS });
+    const csv = await app().inject({ method: 'POST', url: '/api/v1/sweep?format=csv', payload: request, headers: JSON_HEADERS });
     expect(csv.headers['content-type']).toBe('text/csv; charset=utf-8');
     expect(csv.body).toBe(`body.rate.yaw_rad/s,specified.coriolis.normal.2.amplitude_N\r\n${lib.rows.map((row) => row.join(',')).join('\r\n')}\r\n`);
   });
 
   it('refuses an invalid request with 400 and a grid over the limit with 413', async () => {
-    const bad = await app.inject({ method: 'POST', url: '/api/v1/sweep', payload: { ...request, vary: [{ field: 'body.rate.yaw', values: ['fast'] }] }, headers: JSON_HEADERS });
+    const bad = await app().inject({ method: 'POST', url: '/api/v1/sweep', payload: { ...request, vary: [{ field: 'body.rate.yaw', values: ['fast'] }] }, headers: JSON_HEADERS });
     expect(bad.statusCode).toBe(400);
     expect(bad.json()).toEqual({
       error: 'invalid_request',
@@ -268,7 +259,7 @@ describe('POST /api/v1/sweep', () => {
       inputHash: expectedHash({ ...request, vary: [{ field: 'body.rate.yaw', values: ['fast'] }] }),
     });
     const badScenario = { ...request, scenario: { ...fly, organ: { ...(fly.organ as object), arm: '-1 mm' } } };
-    const s = await app.inject({ method: 'POST', url: '/api/v1/sweep', payload: badScenario, headers: JSON_HEADERS });
+    const s = await app().inject({ method: 'POST', url: '/api/v1/sweep', payload: badScenario, headers: JSON_HEADERS });
     expect(s.statusCode).toBe(400);
     expect(s.json()).toEqual({
       error: 'invalid_scenario',
@@ -278,7 +269,7 @@ describe('POST /api/v1/sweep', () => {
       inputHash: expectedHash(badScenario),
     });
     const big = { ...request, vary: [{ field: 'body.rate.yaw', from: 0, to: 1, steps: 20_000 }] };
-    const l = await app.inject({ method: 'POST', url: '/api/v1/sweep', payload: big, headers: JSON_HEADERS });
+    const l = await app().inject({ method: 'POST', url: '/api/v1/sweep', payload: big, headers: JSON_HEADERS });
     expect(l.statusCode).toBe(413);
     expect(l.json()).toEqual({
       error: 'over_limit',
