@@ -214,6 +214,8 @@ const sampling = z.strictObject({
 
 const output = z.strictObject({
   series: z.boolean().default(true),
+  /** Sensing: add the per-harmonic line tables of the strain and sense-mode blocks. */
+  lines: z.boolean().default(false),
   path: z.enum(['auto', 'closed-form', 'sampled'], { error: (iss) => `${show(iss.input)} is not a path; expected "auto", "closed-form" or "sampled"` }).default('auto'),
   decimate: DecimateSchema.optional(),
 });

@@ -119,8 +119,9 @@ export interface StrainAnswer {
   perLoad: Record<StrainAxis, number>;
   /** The strain that follows the sense mode (rotary: outOfPlane), or null when all are quasi-static. */
   dynamic: StrainAxis | null;
-  harmonics: StrainLine[];
-  rateInduced: StrainLine[];
+  /** With output.lines: the strain lines of the total load and of its rate-induced part. */
+  harmonics?: StrainLine[];
+  rateInduced?: StrainLine[];
   peak?: Record<StrainAxis, number>;
   series?: { time: number[] } & Record<StrainAxis, number[]>;
 }
@@ -139,9 +140,10 @@ export interface SenseModeAnswer {
   stiffness: number;
   damping: number;
   thermalForceDensity: number;
-  transfer: { order: number; frequency: number; magnitude: number; phase: number; forceGain: number }[];
-  perUnitRate: Record<RateAxis, SenseLine[]>;
-  displacement: SenseLine[];
+  /** With output.lines: the transfer per harmonic, displacement lines per unit rate and of the total. */
+  transfer?: { order: number; frequency: number; magnitude: number; phase: number; forceGain: number }[];
+  perUnitRate?: Record<RateAxis, SenseLine[]>;
+  displacement?: SenseLine[];
   series?: { time: number[]; displacement: number[] };
 }
 
@@ -468,37 +470,40 @@ function strainLine(axis: StrainAxis, order: number, re: number, im: number): St
 
 function strainAnswer(P: SensingPlan, o: PreparedOrgan): StrainAnswer {
   const st = P.stalk as StalkInfo;
-  const K1 = o.lines.orders, omega = P.model.motion.omega, d = o.lines.data;
-  const harmonics: StrainLine[] = [], rateInduced: StrainLine[] = [];
+  const K1 = o.lines.orders, omega = P.model.motion.omega;
   const dynamicAxis = P.plan.senseMode ? (STRAIN_AXES[senseAxisIndex('rotary')] as StrainAxis) : null;
-  const w0 = omega[0] as number, w1 = omega[1] as number, w2 = omega[2] as number;
-  for (let b = 0; b < 3; b++) {
-    const axis = STRAIN_AXES[b] as StrainAxis;
-    for (let k = 0; k < K1; k++) {
-      const [tr, ti] = strainTransfer(P, b, k);
-      let tp = 0, tq = 0;
-      for (const block of RATE_FREE) {
-        const at = axisAt(o.lines, block, b, k);
-        tp += d[at] as number;
-        tq += d[at + 1] as number;
-      }
-      const c0 = unitAt(o.lines, BLOCK.coriolis, 0, b, k), c1 = unitAt(o.lines, BLOCK.coriolis, 1, b, k), c2 = unitAt(o.lines, BLOCK.coriolis, 2, b, k);
-      const rp = w0 * (d[c0] as number) + w1 * (d[c1] as number) + w2 * (d[c2] as number);
-      const rq = w0 * (d[c0 + 1] as number) + w1 * (d[c1 + 1] as number) + w2 * (d[c2 + 1] as number);
-      tp += rp;
-      tq += rq;
-      harmonics.push(strainLine(axis, k, tr * tp + ti * tq, ti * tp - tr * tq));
-      rateInduced.push(strainLine(axis, k, tr * rp + ti * rq, ti * rp - tr * rq));
-    }
-  }
   const answer: StrainAnswer = {
     section: st.section,
     leverArm: st.lever,
     perLoad: { axial: st.perLoad[0], inPlane: st.perLoad[1], outOfPlane: st.perLoad[2] },
     dynamic: dynamicAxis,
-    harmonics,
-    rateInduced,
   };
+  if (P.scenario.output.lines) {
+    const d = o.lines.data;
+    const harmonics: StrainLine[] = [], rateInduced: StrainLine[] = [];
+    const w0 = omega[0] as number, w1 = omega[1] as number, w2 = omega[2] as number;
+    for (let b = 0; b < 3; b++) {
+      const axis = STRAIN_AXES[b] as StrainAxis;
+      for (let k = 0; k < K1; k++) {
+        const [tr, ti] = strainTransfer(P, b, k);
+        let tp = 0, tq = 0;
+        for (const block of RATE_FREE) {
+          const at = axisAt(o.lines, block, b, k);
+          tp += d[at] as number;
+          tq += d[at + 1] as number;
+        }
+        const c0 = unitAt(o.lines, BLOCK.coriolis, 0, b, k), c1 = unitAt(o.lines, BLOCK.coriolis, 1, b, k), c2 = unitAt(o.lines, BLOCK.coriolis, 2, b, k);
+        const rp = w0 * (d[c0] as number) + w1 * (d[c1] as number) + w2 * (d[c2] as number);
+        const rq = w0 * (d[c0 + 1] as number) + w1 * (d[c1 + 1] as number) + w2 * (d[c2 + 1] as number);
+        tp += rp;
+        tq += rq;
+        harmonics.push(strainLine(axis, k, tr * tp + ti * tq, ti * tp - tr * tq));
+        rateInduced.push(strainLine(axis, k, tr * rp + ti * rq, ti * rp - tr * rq));
+      }
+    }
+    answer.harmonics = harmonics;
+    answer.rateInduced = rateInduced;
+  }
   if (P.scenario.output.series) {
     const { pointsPerBeat: n, beats } = P.scenario.sampling;
     const motion = o.role === 'mirror' ? mirroredMotion(P.model.motion) : P.model.motion;
@@ -531,26 +536,6 @@ function senseModeAnswer(P: SensingPlan, o: PreparedOrgan): SenseModeAnswer {
   const drive = P.scenario.organ.drive;
   const b = senseAxisIndex(drive);
   const K1 = o.lines.orders, f = P.plan.frequency, omega = P.model.motion.omega;
-  const Hs: [number, number][] = [];
-  for (let k = 0; k < K1; k++) Hs.push(displacementTransfer(sm, 2 * Math.PI * f * k));
-  const transfer: SenseModeAnswer['transfer'] = [];
-  for (let k = 1; k < K1; k++) {
-    const [re, im] = Hs[k] as [number, number];
-    transfer.push({ order: k, frequency: k * f, magnitude: Math.sqrt(re * re + im * im), phase: Math.atan2(im, re), forceGain: stiffness(sm) * Math.sqrt(re * re + im * im) });
-  }
-  const perUnitRate = { roll: [], pitch: [], yaw: [] } as Record<RateAxis, SenseLine[]>;
-  for (let i = 0; i < 3; i++) {
-    const list = perUnitRate[RATE_AXES[i] as RateAxis];
-    for (let k = 1; k < K1; k++) {
-      const [tr, ti] = Hs[k] as [number, number];
-      list.push(senseLine(k, through(o.lines.data, unitAt(o.lines, BLOCK.coriolis, i, b, k), tr, ti)));
-    }
-  }
-  const W: [number, number][] = [];
-  for (let k = 0; k < K1; k++) {
-    const [tr, ti] = Hs[k] as [number, number], [p, q] = totalLine(o.lines, omega, b, k);
-    W.push(throughPQ(p, q, tr, ti));
-  }
   const answer: SenseModeAnswer = {
     axis: FRAME_AXES[drive][b] as FrameAxis,
     frequency: sm.frequency,
@@ -559,10 +544,34 @@ function senseModeAnswer(P: SensingPlan, o: PreparedOrgan): SenseModeAnswer {
     stiffness: stiffness(sm),
     damping: damping(sm),
     thermalForceDensity: Math.sqrt(P.plan.thermalPsd),
-    transfer,
-    perUnitRate,
-    displacement: W.map((w, k) => senseLine(k, w)),
   };
+  const { lines, series } = P.scenario.output;
+  if (!lines && !series) return answer;
+  const Hs: [number, number][] = [];
+  for (let k = 0; k < K1; k++) Hs.push(displacementTransfer(sm, 2 * Math.PI * f * k));
+  const W: [number, number][] = [];
+  for (let k = 0; k < K1; k++) {
+    const [tr, ti] = Hs[k] as [number, number], [p, q] = totalLine(o.lines, omega, b, k);
+    W.push(throughPQ(p, q, tr, ti));
+  }
+  if (lines) {
+    const transfer: NonNullable<SenseModeAnswer['transfer']> = [];
+    for (let k = 1; k < K1; k++) {
+      const [re, im] = Hs[k] as [number, number];
+      transfer.push({ order: k, frequency: k * f, magnitude: Math.sqrt(re * re + im * im), phase: Math.atan2(im, re), forceGain: stiffness(sm) * Math.sqrt(re * re + im * im) });
+    }
+    const perUnitRate = { roll: [], pitch: [], yaw: [] } as Record<RateAxis, SenseLine[]>;
+    for (let i = 0; i < 3; i++) {
+      const list = perUnitRate[RATE_AXES[i] as RateAxis];
+      for (let k = 1; k < K1; k++) {
+        const [tr, ti] = Hs[k] as [number, number];
+        list.push(senseLine(k, through(o.lines.data, unitAt(o.lines, BLOCK.coriolis, i, b, k), tr, ti)));
+      }
+    }
+    answer.transfer = transfer;
+    answer.perUnitRate = perUnitRate;
+    answer.displacement = W.map((w, k) => senseLine(k, w));
+  }
   if (P.scenario.output.series) {
     const { pointsPerBeat: n, beats } = P.scenario.sampling;
     answer.series = { time: timeAxis(n, beats, f), displacement: synthesise(W, n, beats) };

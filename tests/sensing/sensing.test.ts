@@ -47,6 +47,32 @@ describe('sensing(example)', () => {
     expect(b.pair).toEqual(a.pair);
     expect(a.warnings.join(' ')).toMatch(/no sensor block/);
   });
+
+  it.each(['fly-sensing', 'mems-sensing'])('%s: output.lines adds the strain and sense-mode line tables and changes nothing else', (name) => {
+    const lean = answerOf(example(name));
+    const full = answerOf(withFields(example(name), { output: { series: false, lines: true } }));
+    const K = full.scenario.sampling.harmonics;
+    for (const [i, o] of lean.organs.entries()) {
+      const f = full.organs[i];
+      expect(f?.axes).toEqual(o.axes);
+      expect(o.strain?.harmonics).toBeUndefined();
+      expect(o.senseMode?.transfer).toBeUndefined();
+      if (o.strain) {
+        // 3 strain axes × orders 0..K, for the total and for its rate-induced part.
+        expect(f?.strain?.harmonics).toHaveLength(3 * (K + 1));
+        expect(f?.strain?.rateInduced).toHaveLength(3 * (K + 1));
+        expect({ ...f?.strain, harmonics: undefined, rateInduced: undefined }).toEqual({ ...o.strain, harmonics: undefined, rateInduced: undefined });
+      }
+      if (o.senseMode) {
+        expect(f?.senseMode?.transfer).toHaveLength(K);
+        expect(f?.senseMode?.perUnitRate?.yaw).toHaveLength(K);
+        expect(f?.senseMode?.displacement).toHaveLength(K + 1);
+        expect({ ...f?.senseMode, transfer: undefined, perUnitRate: undefined, displacement: undefined }).toEqual({ ...o.senseMode, transfer: undefined, perUnitRate: undefined, displacement: undefined });
+      }
+    }
+    expect(lean.organs.some((o) => o.strain || o.senseMode)).toBe(true);
+    expect(full.pair).toEqual(lean.pair);
+  });
 });
 
 describe('sensing: the mirror pair (design §2)', () => {
@@ -296,7 +322,7 @@ describe('sensing: series', () => {
 
   it('with a sense mode on a rotary organ, the out-of-plane strain follows the spring force: strain per newton × G(kω) × load line', () => {
     const fly = example('fly-sensing');
-    const doc = withFields(fly, { organ: { ...(fly.organ as object), senseMode: { frequency: '500 Hz', quality: 8, mass: '6 ug' } }, output: { series: true } });
+    const doc = withFields(fly, { organ: { ...(fly.organ as object), senseMode: { frequency: '500 Hz', quality: 8, mass: '6 ug' } }, output: { series: true, lines: true } });
     const a = answerOf(doc);
     const f = forces(doc);
     if (!f.ok) throw new Error('forces');
@@ -306,13 +332,13 @@ describe('sensing: series', () => {
       const F = f.answer.organs[0]?.harmonics.find((l) => l.component === 'total' && l.axis === 'normal' && l.order === k);
       const r = (k * 180) / 500;
       const G = 1 / Math.hypot(1 - r * r, r / 8), lag = Math.atan2(r / 8, 1 - r * r);
-      const e = st?.harmonics.find((l) => l.axis === 'outOfPlane' && l.order === k);
+      const e = st?.harmonics?.find((l) => l.axis === 'outOfPlane' && l.order === k);
       expect(e?.amplitude).toBeCloseTo(Math.abs(st?.perLoad.outOfPlane as number) * G * (F?.amplitude ?? 0), 16);
       if ((F?.amplitude ?? 0) > 1e-12) expect(Math.cos((e?.phase ?? 0) - ((F?.phase ?? 0) + Math.PI - lag))).toBeCloseTo(1, 9);
     }
     // The sense displacement series is the sum of its lines (t = 0: Σ A_k cos ψ_k).
     const sm = a.organs[0]?.senseMode;
-    const x0 = sm?.displacement.reduce((s, l) => s + l.amplitude * Math.cos(l.phase), 0) ?? NaN;
+    const x0 = sm?.displacement?.reduce((s, l) => s + l.amplitude * Math.cos(l.phase), 0) ?? NaN;
     expect(sm?.series?.displacement[0]).toBeCloseTo(x0, 18);
   });
 });
