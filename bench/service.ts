@@ -6,7 +6,8 @@
  *   - POST /api/v1/forces for the default example, for reference;
  *   - a 10,000-point rate sweep end to end over HTTP (fetch, JSON answer): < 100 ms (median).
  *
- * autocannon runs as a child process, so this process's CPU time is the server's alone: each row
+ * Each measured run follows an unmeasured warm-up of the same route (BENCH_SERVICE_WARM_UP seconds,
+ * default 2). autocannon runs as a child process, so this process's CPU time is the server's alone: each row
  * gives the wall-clock rate autocannon saw and the rate per CPU-second of the server (requests /
  * server CPU seconds). Like the rest of the bench, the verdict on rates uses CPU time, which other
  * work on a shared machine does not inflate; latency is wall-clock by nature and is shown with
@@ -54,15 +55,27 @@ const cpuSeconds = (): number => {
   return (u.user + u.system) / 1e6;
 };
 
-/** One autocannon run in a child process; the server keeps this process's event loop to itself. */
-async function load(url: string, opts: { method?: 'GET' | 'POST'; bodyFile?: string } = {}): Promise<Load> {
-  const args = [AUTOCANNON, '-j', '-c', String(CONNECTIONS), '-d', String(SECONDS), '-m', opts.method ?? 'GET'];
+const WARM_UP_SECONDS = Number(process.env.BENCH_SERVICE_WARM_UP ?? 2);
+
+function autocannon(url: string, seconds: number, opts: { method?: 'GET' | 'POST'; bodyFile?: string }): Promise<string> {
+  const args = [AUTOCANNON, '-j', '-c', String(CONNECTIONS), '-d', String(seconds), '-m', opts.method ?? 'GET'];
   if (opts.bodyFile) args.push('-i', opts.bodyFile, '-H', 'content-type=application/json');
   args.push(url);
-  const cpu0 = cpuSeconds();
-  const stdout = await new Promise<string>((resolve, reject) => {
+  return new Promise<string>((resolve, reject) => {
     execFile(process.execPath, args, { maxBuffer: 16 * 1024 * 1024 }, (error, out) => (error ? reject(error) : resolve(out)));
   });
+}
+
+/**
+ * One autocannon run in a child process; the server keeps this process's event loop to itself.
+ * Each route is first driven for WARM_UP_SECONDS, unmeasured, as a long-running service is: the
+ * first few hundred requests run cold code (compilation of the scenario parser, first unit
+ * strings, the JIT), and with them in the sample the p99 measured the start-up, not the service.
+ */
+async function load(url: string, opts: { method?: 'GET' | 'POST'; bodyFile?: string } = {}): Promise<Load> {
+  if (WARM_UP_SECONDS > 0) await autocannon(url, WARM_UP_SECONDS, opts);
+  const cpu0 = cpuSeconds();
+  const stdout = await autocannon(url, SECONDS, opts);
   const cpu = cpuSeconds() - cpu0;
   const r = JSON.parse(stdout) as { requests: { average: number; total: number }; latency: { p50: number; p99: number }; errors: number; timeouts: number; non2xx: number };
   return { rate: r.requests.average, cpuRate: r.requests.total / cpu, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts, non2xx: r.non2xx, requests: r.requests.total };

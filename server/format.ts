@@ -51,6 +51,27 @@ export function registerFixedJson(...objects: object[]): void {
   }
 }
 
+/*
+ * Answer bytes are carved from 1 MB slabs, as Node's Buffer pool does with 8 kB ones: an answer of
+ * a few kilobytes up otherwise costs an ArrayBuffer of its own (about 6–9 µs with the collector's
+ * share, against under 1 µs from a slab). A slice is written once, handed to the socket and never
+ * touched again; a slab is freed when its last answer has been sent. Answers over 128 kB get their
+ * own buffer.
+ */
+const SLAB = 1 << 20;
+let slab = Buffer.allocUnsafeSlow(0);
+let slabAt = 0;
+function answerBuffer(bytes: number): Buffer {
+  if (bytes > SLAB >> 3) return Buffer.allocUnsafe(bytes);
+  if (slabAt + bytes > slab.length) {
+    slab = Buffer.allocUnsafeSlow(SLAB);
+    slabAt = 0;
+  }
+  const out = slab.subarray(slabAt, slabAt + bytes);
+  slabAt += (bytes + 7) & ~7;
+  return out;
+}
+
 /**
  * The bytes of `JSON.stringify(o)` for a plain object, written member by member into one UTF-8
  * Buffer. Same bytes as JSON.stringify (members in Object.keys order, members whose value
@@ -73,7 +94,7 @@ export function jsonBytes(o: Record<string, unknown>): Buffer {
     bytes += Buffer.byteLength(head) + (typeof text === 'string' ? Buffer.byteLength(text) : text.length);
   }
   if (parts.length === 0) return Buffer.from('{}');
-  const out = Buffer.allocUnsafe(bytes);
+  const out = answerBuffer(bytes);
   let at = 0;
   for (const p of parts) at += typeof p === 'string' ? out.write(p, at) : p.copy(out, at);
   out[at] = 0x7d; // }
