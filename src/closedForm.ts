@@ -102,26 +102,23 @@ function crossInto(w: Float64Array, i: number, A: Vec3, v0: number, v1: number, 
   w[i + 2] = (A[0] * v1 - A[1] * v0) * s;
 }
 
-function rotaryTerms(w: Float64Array, M: number, mu: number, h: Vec3, a0: Vec3, t0: Vec3, m: Motion): void {
-  const W = m.omega, Wd = m.omegaDot;
+function rotaryTerms(w: Float64Array, M: number, mu: number, h: Vec3, a0x: number, a0y: number, a0z: number, t0x: number, t0y: number, t0z: number, m: Motion): void {
+  const W = m.omega, Wd = m.omegaDot, A = m.accel, G = m.gravity;
   const h0 = h[0] * M, h1 = h[1] * M, h2 = h[2] * M;
-  const set = (i: number, x: number, y: number, z: number) => {
-    w[3 * i] = x; w[3 * i + 1] = y; w[3 * i + 2] = z;
-  };
-  set(0, a0[0] * mu, a0[1] * mu, a0[2] * mu);
-  set(1, t0[0] * -mu, t0[1] * -mu, t0[2] * -mu);
-  set(2, a0[0] * mu, a0[1] * mu, a0[2] * mu);
-  set(3, t0[0] * mu, t0[1] * mu, t0[2] * mu);
+  w[0] = a0x * mu; w[1] = a0y * mu; w[2] = a0z * mu;
+  w[3] = -t0x * mu; w[4] = -t0y * mu; w[5] = -t0z * mu;
+  w[6] = a0x * mu; w[7] = a0y * mu; w[8] = a0z * mu;
+  w[9] = t0x * mu; w[10] = t0y * mu; w[11] = t0z * mu;
   centrifugalInto(w, 12, W, h0, h1, h2, 1);
-  centrifugalInto(w, 15, W, a0[0], a0[1], a0[2], mu);
-  centrifugalInto(w, 18, W, t0[0], t0[1], t0[2], mu);
+  centrifugalInto(w, 15, W, a0x, a0y, a0z, mu);
+  centrifugalInto(w, 18, W, t0x, t0y, t0z, mu);
   crossInto(w, 21, Wd, h0, h1, h2, -1);
-  crossInto(w, 24, Wd, a0[0], a0[1], a0[2], -mu);
-  crossInto(w, 27, Wd, t0[0], t0[1], t0[2], -mu);
-  crossInto(w, 30, W, a0[0], a0[1], a0[2], 2 * mu);
-  crossInto(w, 33, W, t0[0], t0[1], t0[2], -2 * mu);
-  set(12, m.accel[0] * -M, m.accel[1] * -M, m.accel[2] * -M);
-  set(13, m.gravity[0] * M, m.gravity[1] * M, m.gravity[2] * M);
+  crossInto(w, 24, Wd, a0x, a0y, a0z, -mu);
+  crossInto(w, 27, Wd, t0x, t0y, t0z, -mu);
+  crossInto(w, 30, W, a0x, a0y, a0z, 2 * mu);
+  crossInto(w, 33, W, t0x, t0y, t0z, -2 * mu);
+  w[36] = A[0] * -M; w[37] = A[1] * -M; w[38] = A[2] * -M;
+  w[39] = G[0] * M; w[40] = G[1] * M; w[41] = G[2] * M;
 }
 
 /**
@@ -225,34 +222,35 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   const delta = Math.atan2(a1, b1);
   const w0 = 2 * Math.PI * g.frequency;
   const cm = Math.cos(wave.mean), sm = Math.sin(wave.mean);
-  const a0: Vec3 = [cm * g.e1[0] + sm * g.e2[0], cm * g.e1[1] + sm * g.e2[1], cm * g.e1[2] + sm * g.e2[2]];
-  const t0: Vec3 = [cm * g.e2[0] - sm * g.e1[0], cm * g.e2[1] - sm * g.e1[1], cm * g.e2[2] - sm * g.e1[2]];
-  const n = g.e3;
+  const e1 = g.e1, e2 = g.e2, n = g.e3;
+  // a0 = e1 cos φ̄ + e2 sin φ̄, t0 = e2 cos φ̄ − e1 sin φ̄ (scalars: no allocation per call)
+  const a0x = cm * e1[0] + sm * e2[0], a0y = cm * e1[1] + sm * e2[1], a0z = cm * e1[2] + sm * e2[2];
+  const t0x = cm * e2[0] - sm * e1[0], t0y = cm * e2[1] - sm * e1[1], t0z = cm * e2[2] - sm * e1[2];
 
   const W = workspace(L);
   const b = W.buf;
   b.fill(0, 0, 6 * 2 * L); // the six τ series; every product series is written whole when first used
   W.ready.fill(0);
   const J = besselJ(amp, L, W.J), J2 = besselJ(2 * amp, L, W.J2);
-  const slot = (i: number) => slotOf(L, i);
-  b[slot(T_ONE)] = 1;
+  const sC = slotOf(L, T_C), sCC = slotOf(L, T_CC), sSS = slotOf(L, T_SS), sS = slotOf(L, T_S), sCS = slotOf(L, T_CS);
+  b[slotOf(L, T_ONE)] = 1;
   for (let k = 0; k < L; k++) {
     const jk = J[k] as number, j2k = J2[k] as number;
     if (k % 2 === 0) {
-      b[slot(T_C) + k] = k === 0 ? jk : 2 * jk; // cos φ
+      b[sC + k] = k === 0 ? jk : 2 * jk; // cos φ
       const c2 = k === 0 ? j2k : 2 * j2k; // cos 2φ
-      b[slot(T_CC) + k] = (k === 0 ? 0.5 : 0) + c2 / 2;
-      b[slot(T_SS) + k] = (k === 0 ? 0.5 : 0) - c2 / 2;
+      b[sCC + k] = (k === 0 ? 0.5 : 0) + c2 / 2;
+      b[sSS + k] = (k === 0 ? 0.5 : 0) - c2 / 2;
     } else {
-      b[slot(T_S) + L + k] = 2 * jk; // sin φ
-      b[slot(T_CS) + L + k] = j2k; // sin 2φ / 2
+      b[sS + L + k] = 2 * jk; // sin φ
+      b[sCS + L + k] = j2k; // sin 2φ / 2
     }
   }
   for (let t = 0; t < 6; t++) W.ready[t] = 1;
   const pq = out.pq;
   pq.fill(0);
   const w = W.terms;
-  rotaryTerms(w, g.mass, g.moment, g.hinge, a0, t0, m);
+  rotaryTerms(w, g.mass, g.moment, g.hinge, a0x, a0y, a0z, t0x, t0y, t0z, m);
   const step = K1 * 2;
   let touched = 0;
   for (let i = 0; i < N_TERMS; i++) {
@@ -262,7 +260,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
     const gi = TERM_G[i] as number, tau = TERM_TAU[i] as 0 | 1 | 2;
     const base = seriesSlot(W, gi, tau, amp, w0);
     const sc = seriesSlot(W, gi, TIMES_C[tau], amp, w0), ss = seriesSlot(W, gi, TIMES_S[tau], amp, w0);
-    const wa = V0 * a0[0] + V1 * a0[1] + V2 * a0[2], wt = V0 * t0[0] + V1 * t0[1] + V2 * t0[2], wn = V0 * n[0] + V1 * n[1] + V2 * n[2];
+    const wa = V0 * a0x + V1 * a0y + V2 * a0z, wt = V0 * t0x + V1 * t0y + V2 * t0z, wn = V0 * n[0] + V1 * n[1] + V2 * n[2];
     addTerm(pq, (TERM_C[i] as number) * N_AXES * step, K1, b, L, base, sc, ss, V0, V1, V2, wa, wt, wn);
   }
   advance(pq, K1, delta, W.cs);
