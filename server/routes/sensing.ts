@@ -2,7 +2,7 @@
 import { z } from 'zod';
 import { CONVENTIONS, SENSING_UNITS, sensing, sensingCsv } from '../../src/sensing/index.js';
 import { sendIssues } from '../errors.js';
-import { chooseFormat, FormatSchema, registerFixedJson, sendCsv, sendJson } from '../format.js';
+import { chooseFormat, FormatSchema, memberWriter, registerFixedJson, sendCsv, sendJson, type MemberWriters } from '../format.js';
 import { inputHash } from '../hash.js';
 import { defineRoute } from '../route.js';
 import { errorResponses, stamp } from '../schemas.js';
@@ -44,16 +44,74 @@ const AxisSchema = z.strictObject({
   bias: BiasSchema.nullable(),
 });
 
+const strains = <T extends z.ZodType>(t: T) => z.strictObject({ axial: t, inPlane: t, outOfPlane: t });
+const StrainAxisSchema = z.enum(['axial', 'inPlane', 'outOfPlane']);
+const StrainLineSchema = z.strictObject({ axis: StrainAxisSchema, order: z.number().int(), amplitude: num, phase: num });
+const SenseLineSchema = z.strictObject({ order: z.number().int(), amplitude: num.meta({ description: 'm' }), phase: num });
+
+const StrainSchema = z.strictObject({
+  section: z.strictObject({
+    outer: z.tuple([num, num]).meta({ description: 'outer semi-axes [normal, in-plane] (m)' }),
+    inner: z.tuple([num, num]).meta({ description: 'inner semi-axes [normal, in-plane] (m)' }),
+    secondMomentNormal: num.meta({ description: 'm^4' }),
+    secondMomentInPlane: num.meta({ description: 'm^4' }),
+    area: num.meta({ description: 'm^2' }),
+  }),
+  leverArm: num.meta({ description: 'm' }),
+  perLoad: strains(num).meta({ description: 'base strain per newton of load' }),
+  dynamic: StrainAxisSchema.nullable().meta({ description: 'the strain that follows the sense mode, or null' }),
+  harmonics: z.array(StrainLineSchema).optional().meta({ description: 'with output.lines: strain lines of the total load' }),
+  rateInduced: z.array(StrainLineSchema).optional().meta({ description: 'with output.lines: strain lines of the rate-induced load' }),
+  series: z.strictObject({ time: z.array(num), axial: z.array(num), inPlane: z.array(num), outOfPlane: z.array(num) }).optional().meta({ description: 'with output.series' }),
+  peak: strains(num).optional().meta({ description: 'with output.series: largest |strain| of each series' }),
+}).meta({ description: 'stalk section and base strain (with organ.stalk)' });
+
+const SenseModeSchema = z.strictObject({
+  axis: z.string(),
+  frequency: num.meta({ description: 'Hz' }),
+  quality: num,
+  mass: num.meta({ description: 'kg' }),
+  stiffness: num.meta({ description: 'N/m' }),
+  damping: num.meta({ description: 'N s/m' }),
+  thermalForceDensity: num.meta({ description: 'N/Hz^0.5, one-sided' }),
+  transfer: z.array(z.strictObject({ order: z.number().int(), frequency: num, magnitude: num.meta({ description: 'm/N' }), phase: num, forceGain: num })).optional().meta({ description: 'with output.lines' }),
+  perUnitRate: rates(z.array(SenseLineSchema)).optional().meta({ description: 'with output.lines: displacement lines per rad/s' }),
+  displacement: z.array(SenseLineSchema).optional().meta({ description: 'with output.lines: displacement lines at the scenario rates' }),
+  series: z.strictObject({ time: z.array(num), displacement: z.array(num) }).optional().meta({ description: 'with output.series' }),
+}).meta({ description: 'sense-mode constants and displacement (with organ.senseMode)' });
+
 const OrganSensingSchema = z.strictObject({
   side: z.enum(['right', 'left', 'midline']),
   role: z.enum(['specified', 'mirror']),
   read: z.strictObject({ axes: z.array(z.string()), quantity: z.enum(['load', 'strain', 'displacement']), unit: z.string() }),
   axes: rates(AxisSchema),
-  strain: z.record(z.string(), z.unknown()).optional().meta({ description: 'stalk section, strain per load, strain lines (with organ.stalk)' }),
-  senseMode: z.record(z.string(), z.unknown()).optional().meta({ description: 'sense-mode transfer, displacement lines (with organ.senseMode)' }),
+  strain: StrainSchema.optional(),
+  senseMode: SenseModeSchema.optional(),
 });
 
 const PairAxisSchema = z.strictObject({ minimumRate: nnum.meta({ description: 'rad/s, both organs read together' }), observable: z.boolean() });
+
+const PairRowSchema = z.strictObject({
+  side: z.enum(['right', 'left', 'midline']),
+  role: z.enum(['specified', 'mirror']),
+  axis: z.string(),
+  order: z.number().int(),
+  quantity: z.enum(['load', 'strain', 'displacement']),
+  unit: z.string(),
+  referencePhase: num,
+  noise: num.meta({ description: 'σ of the in-phase output over the integration (channel unit)' }),
+  roll: num,
+  pitch: num,
+  yaw: num,
+});
+
+const ConfusionSchema = z.strictObject({
+  kind: z.enum(['unobserved', 'confused']),
+  axes: z.array(z.enum(['roll', 'pitch', 'yaw'])),
+  direction: rates(num).meta({ description: 'unit rate direction the pair (almost) cannot see' }),
+  ratio: num,
+  message: z.string(),
+});
 
 const PairSchema = z.strictObject({
   organs: num,
@@ -65,8 +123,8 @@ const PairSchema = z.strictObject({
   conditionNumber: nnum,
   singularValues: z.tuple([num, num, num]),
   covariance: z.array(z.array(nnum)).meta({ description: 'rate covariance (Hᵀ R⁻¹ H)⁻¹, (rad/s)²' }),
-  confusions: z.array(z.record(z.string(), z.unknown())),
-  matrix: z.array(z.record(z.string(), z.unknown())).meta({ description: 'H: one row per channel (side, axis, order, noise, in-phase output per rad/s of roll, pitch, yaw)' }),
+  confusions: z.array(ConfusionSchema),
+  matrix: z.array(PairRowSchema).meta({ description: 'H: one row per channel (side, axis, order, noise, in-phase output per rad/s of roll, pitch, yaw)' }),
 });
 
 export const SensingAnswerSchema = z.strictObject({
@@ -80,6 +138,9 @@ export const SensingAnswerSchema = z.strictObject({
   organs: z.array(OrganSensingSchema),
   pair: PairSchema,
 });
+
+/** The organs and the pair (most of an answer) are written by serialisers compiled from their schemas. */
+export const SENSING_WRITERS: MemberWriters = { organs: memberWriter(z.array(OrganSensingSchema)), pair: memberWriter(PairSchema) };
 
 export const sensingRoute = defineRoute({
   method: 'POST',
@@ -102,6 +163,6 @@ export const sensingRoute = defineRoute({
       return;
     }
     if (chooseFormat(query, request.headers.accept) === 'csv') sendCsv(reply, hash, sensingCsv(r.answer));
-    else sendJson(reply, hash, r.answer);
+    else sendJson(reply, hash, r.answer, SENSING_WRITERS);
   },
 });
