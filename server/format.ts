@@ -3,7 +3,6 @@
  * an Accept header that names text/csv before application/json.
  */
 import type { FastifyReply } from 'fastify';
-import fastJsonStringify from 'fast-json-stringify';
 import { z } from 'zod';
 import { VERSION } from '../src/version.js';
 
@@ -80,15 +79,14 @@ function answerBuffer(bytes: number): Buffer {
  * U+00FF (a √ in a description or in the conventions) makes JSON.stringify write the whole answer
  * as UTF-16 and the socket transcode it all; member by member, only that member is.
  */
-export function jsonBytes(o: Record<string, unknown>, members?: MemberWriters): Buffer {
+export function jsonBytes(o: Record<string, unknown>): Buffer {
   const parts: (string | Buffer)[] = [];
   let bytes = 1;
   let sep = '{';
   for (const k of Object.keys(o)) {
     const v = o[k];
     const fixed = v !== null && typeof v === 'object' ? fixedJson.get(v) : undefined;
-    const write = members?.[k];
-    const text = fixed ?? (write && v !== undefined ? write(v) : JSON.stringify(v) as string | undefined);
+    const text = fixed ?? JSON.stringify(v) as string | undefined;
     if (text === undefined) continue;
     const head = `${sep}${JSON.stringify(k)}:`;
     sep = ',';
@@ -103,33 +101,10 @@ export function jsonBytes(o: Record<string, unknown>, members?: MemberWriters): 
   return out;
 }
 
-/** Writers of the JSON of chosen top-level members of an answer (see `memberWriter`). */
-export type MemberWriters = Readonly<Record<string, (value: unknown) => string>>;
-
-/**
- * A writer of `JSON.stringify(value)` for values of a zod answer schema, compiled by
- * fast-json-stringify (fastify's own serialiser) from the schema's JSON Schema: the schema that
- * documents a member in the OpenAPI document is the one that writes it. It writes properties in the
- * schema's order, so the schema must list them in the order the answer builds them, and it leaves
- * out properties the schema does not name; tests hold its output equal to `JSON.stringify` on the
- * shipped examples and their variants. It throws on NaN, where `JSON.stringify` writes null: then,
- * and on any other throw, the member is written by `JSON.stringify`.
- */
-export function memberWriter(schema: z.ZodType): (value: unknown) => string {
-  const compiled = fastJsonStringify(z.toJSONSchema(schema, { target: 'draft-7', io: 'output' }) as Parameters<typeof fastJsonStringify>[0]);
-  return (value) => {
-    try {
-      return compiled(value);
-    } catch {
-      return JSON.stringify(value);
-    }
-  };
-}
-
 /** Send a JSON answer with the version and input hash in the body (first) and as headers. */
-export function sendJson(reply: FastifyReply, hash: string, answer: object, members?: MemberWriters): FastifyReply {
+export function sendJson(reply: FastifyReply, hash: string, answer: object): FastifyReply {
   reply.header('x-input-hash', hash);
-  return reply.type('application/json; charset=utf-8').send(jsonBytes({ version: VERSION, inputHash: hash, ...answer }, members));
+  return reply.type('application/json; charset=utf-8').send(jsonBytes({ version: VERSION, inputHash: hash, ...answer }));
 }
 
 /** Send a CSV table; the version and input hash travel as headers (the table stays plain CSV). */

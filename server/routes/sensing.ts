@@ -2,7 +2,7 @@
 import { z } from 'zod';
 import { CONVENTIONS, SENSING_UNITS, sensing, sensingCsv } from '../../src/sensing/index.js';
 import { sendIssues } from '../errors.js';
-import { chooseFormat, FormatSchema, memberWriter, registerFixedJson, sendCsv, sendJson, type MemberWriters } from '../format.js';
+import { chooseFormat, FormatSchema, registerFixedJson, sendCsv, sendJson } from '../format.js';
 import { inputHash } from '../hash.js';
 import { defineRoute } from '../route.js';
 import { errorResponses, stamp } from '../schemas.js';
@@ -139,9 +139,6 @@ export const SensingAnswerSchema = z.strictObject({
   pair: PairSchema,
 });
 
-/** The organs and the pair (most of an answer) are written by serialisers compiled from their schemas. */
-export const SENSING_WRITERS: MemberWriters = { organs: memberWriter(z.array(OrganSensingSchema)), pair: memberWriter(PairSchema) };
-
 export const sensingRoute = defineRoute({
   method: 'POST',
   url: '/sensing',
@@ -163,6 +160,6 @@ export const sensingRoute = defineRoute({
       return;
     }
     if (chooseFormat(query, request.headers.accept) === 'csv') sendCsv(reply, hash, sensingCsv(r.answer));
-    else sendJson(reply, hash, r.answer, SENSING_WRITERS);
+    else sendJson(reply, hash, r.answer);
   },
 });

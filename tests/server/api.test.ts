@@ -252,6 +252,31 @@ describe('POST /api/v1/sensing', () => {
     }
   });
 
+  it('documents every member of an answer: the strict answer schema accepts answers with line tables, series, a sense mode on a stalk, a single organ and a confused pair', () => {
+    const fly = example('fly-sensing'), mems = example('mems-sensing');
+    const flyOrgan = fly.organ as Record<string, unknown>;
+    const tuned = { ...flyOrgan, senseMode: { frequency: '600 Hz', quality: 9, mass: '6 ug' } };
+    const seen = new Set<string>();
+    for (const doc of [
+      { ...fly, output: { series: true, lines: true } },
+      { ...mems, output: { series: true, lines: true } },
+      { ...fly, organ: tuned, output: { series: false, lines: true } },
+      { ...fly, organ: { ...tuned, mirror: false }, sensor: { integration: '20 ms' } },
+    ]) {
+      const r = sensing(doc);
+      if (!r.ok) throw new Error(JSON.stringify(r.issues));
+      const parsed = SensingAnswerSchema.safeParse(JSON.parse(JSON.stringify({ ...r.answer, inputHash: '0123456789abcdef' })));
+      expect(parsed.error?.issues ?? []).toEqual([]);
+      for (const o of r.answer.organs) {
+        if (o.strain?.harmonics && o.strain.series) seen.add('strain lines and series');
+        if (o.senseMode?.perUnitRate && o.senseMode.series) seen.add('sense-mode lines and series');
+      }
+      if (r.answer.pair.confusions.length > 0) seen.add('confusions');
+      if (r.answer.organs.length === 1) seen.add('single organ');
+    }
+    expect([...seen].sort()).toEqual(['confusions', 'sense-mode lines and series', 'single organ', 'strain lines and series']);
+  });
+
   it('reports the smallest detectable rate as threshold · σ / |K| (design §6) for each organ and axis', async () => {
     const body = (await post('/api/v1/sensing', example('fly-sensing'))).json() as { organs: { axes: Record<string, { scaleFactor: number; noise: { sigma: number } | null; minimumRate: number | null }> }[] };
     let checked = 0;
