@@ -39,6 +39,7 @@ const AxisSchema = z.strictObject({
   noise: z.strictObject({ density: num, thermalDensity: num, readoutDensity: num, sigma: num, limitedBy: z.enum(['thermal', 'readout', 'none']) }).nullable(),
   snr: nnum,
   minimumRate: nnum.meta({ description: 'rad/s at the threshold SNR' }),
+  detectable: z.boolean().nullable().meta({ description: "SNR ≥ threshold at the scenario's rate; null without a noise model or at zero rate" }),
   rateNoiseDensity: nnum.meta({ description: '(rad/s)/Hz^0.5, one-sided' }),
   angleRandomWalk: nnum.meta({ description: 'deg/h^0.5 (IEEE Std 952 / 1431)' }),
   bias: BiasSchema.nullable(),
@@ -89,7 +90,11 @@ const OrganSensingSchema = z.strictObject({
   senseMode: SenseModeSchema.optional(),
 });
 
-const PairAxisSchema = z.strictObject({ minimumRate: nnum.meta({ description: 'rad/s, both organs read together' }), observable: z.boolean() });
+const PairAxisSchema = z.strictObject({
+  minimumRate: nnum.meta({ description: 'rad/s, both organs read together' }),
+  observable: z.boolean(),
+  detectable: z.boolean().nullable().meta({ description: "|rate| ≥ minimumRate at the scenario's rate; null without a noise model or at zero rate" }),
+});
 
 const PairRowSchema = z.strictObject({
   side: z.enum(['right', 'left', 'midline']),

@@ -56,6 +56,7 @@ export const CONVENTIONS = {
   scaleFactor: 'K = ∂I/∂Ω: the in-phase output per unit body rate about the axis, at zero rate (the Coriolis line is linear in Ω); signed.',
   snr: 'SNR = |K Ω| / σ, an amplitude ratio (not a power ratio), for the scenario\'s rate about that axis.',
   minimumRate: 'Smallest detectable rate = threshold · σ / |K| (rad/s), threshold = sensor.threshold (SNR, default 1).',
+  detectable: 'Whether the scenario\'s rate about the axis is detected: SNR ≥ threshold on the organ\'s best channel (per organ), |Ω| ≥ the pair\'s minimum rate (pair); null without a noise model or when the scenario has no rate about that axis.',
   rateNoiseDensity: 'One-sided rate-noise density n = √(2S)/|K| in (rad/s)/√Hz: the demodulated rate output as white baseband noise, so that a T-average has spread n/√(2T) = σ/|K|.',
   angleRandomWalk: 'Angle random walk N in deg/√h with the IEEE Std 952 / IEEE Std 1431 Allan-variance convention σ²(τ) = N²/τ for white rate noise, N² being the two-sided PSD level: N = n/√2 = √S/|K|. N[deg/√h] = 60 · N[deg/s/√Hz] (0.01 deg/s/√Hz ↔ 0.6 deg/√h).',
   thermalNoise: 'Thermo-mechanical force noise of the sense mode S_F = 4 k_B T c, c = m ω_s/Q, k_B = 1.380649e-23 J/K (exact, SI 2019), one-sided, on the sense axis only. Without organ.senseMode there is no damping to take it from and only the readout noise counts.',
@@ -101,6 +102,8 @@ export interface AxisSensing {
   noise: AxisNoise | null;
   snr: number | null;
   minimumRate: number | null;
+  /** SNR ≥ threshold at the scenario's rate; null without a noise model or at zero rate. */
+  detectable: boolean | null;
   rateNoiseDensity: number | null;
   angleRandomWalk: number | null;
   bias: Bias | null;
@@ -170,13 +173,20 @@ export interface PairRowAnswer {
   yaw: number;
 }
 
+export interface PairAxis {
+  minimumRate: number | null;
+  observable: boolean;
+  /** |Ω| ≥ minimumRate at the scenario's rate; null without a noise model or at zero rate. */
+  detectable: boolean | null;
+}
+
 export interface PairSensing {
   organs: number;
   channels: number;
   weighted: boolean;
-  roll: { minimumRate: number | null; observable: boolean };
-  pitch: { minimumRate: number | null; observable: boolean };
-  yaw: { minimumRate: number | null; observable: boolean };
+  roll: PairAxis;
+  pitch: PairAxis;
+  yaw: PairAxis;
   conditionNumber: number | null;
   singularValues: [number, number, number];
   covariance: (number | null)[][];
@@ -402,7 +412,7 @@ function axisAnswer(P: SensingPlan, o: PreparedOrgan, i: number): AxisSensing {
   const rate = P.model.motion.omega[i] as number;
   const r = o.best[i] as number;
   if (r < 0) {
-    return { channel: null, scaleFactor: 0, quadratureScaleFactor: 0, crossAxis: null, rate, signal: 0, noise: null, snr: null, minimumRate: null, rateNoiseDensity: null, angleRandomWalk: null, bias: null };
+    return { channel: null, scaleFactor: 0, quadratureScaleFactor: 0, crossAxis: null, rate, signal: 0, noise: null, snr: null, minimumRate: null, detectable: null, rateNoiseDensity: null, angleRandomWalk: null, bias: null };
   }
   const ch = o.channels, at = r * CH.size;
   const b = ch[at + CH.b] as number, k = ch[at + CH.k] as number;
@@ -422,6 +432,7 @@ function axisAnswer(P: SensingPlan, o: PreparedOrgan, i: number): AxisSensing {
     noise: { density: Math.sqrt(S), thermalDensity: Math.sqrt(St), readoutDensity: Math.sqrt(plan.readoutPsd), sigma, limitedBy: !noisy ? 'none' : St > plan.readoutPsd ? 'thermal' : 'readout' },
     snr: noisy ? Math.abs(K * rate) / sigma : null,
     minimumRate: noisy ? (plan.threshold * sigma) / Math.abs(K) : null,
+    detectable: noisy && rate !== 0 ? Math.abs(K * rate) / sigma >= plan.threshold : null,
     rateNoiseDensity: noisy ? rateNoiseDensity(S, K) : null,
     angleRandomWalk: noisy ? toDegreesPerRootHour(angleRandomWalkCoefficient(S, K)) : null,
     bias: biasOf(plan, o.lines, ch, r, i),
@@ -600,14 +611,17 @@ function pairAnswer(P: SensingPlan): PairSensing {
       yaw: o.channels[at + CH.K + 2] as number,
     };
   });
-  const axis = (a: RateAxis) => ({ minimumRate: pair.minimumRate[a], observable: pair.observable[a] });
+  const axis = (a: RateAxis, i: number): PairAxis => {
+    const rate = P.model.motion.omega[i] as number, min = pair.minimumRate[a];
+    return { minimumRate: min, observable: pair.observable[a], detectable: min !== null && rate !== 0 ? Math.abs(rate) >= min : null };
+  };
   return {
     organs: P.organs.length,
     channels: pair.channels,
     weighted: pair.weighted,
-    roll: axis('roll'),
-    pitch: axis('pitch'),
-    yaw: axis('yaw'),
+    roll: axis('roll', 0),
+    pitch: axis('pitch', 1),
+    yaw: axis('yaw', 2),
     conditionNumber: pair.conditionNumber,
     singularValues: pair.singularValues,
     covariance: pair.covariance,

@@ -11,7 +11,7 @@ export function sensingCsv(a: SensingAnswer): string {
   const header = [
     'side', 'role', 'axis', 'channel_axis', 'order', 'frequency_Hz', 'reference_phase_rad',
     `scale_factor_${q}_per_rad_s`, 'rate_rad_s', `signal_${q}`, `noise_density_${q}_per_Hz^0.5`, `sigma_${q}`, 'limited_by',
-    'snr', 'minimum_rate_rad_s', 'rate_noise_density_rad_s_per_Hz^0.5', 'angle_random_walk_deg_per_h^0.5',
+    'snr', 'minimum_rate_rad_s', 'detectable', 'rate_noise_density_rad_s_per_Hz^0.5', 'angle_random_walk_deg_per_h^0.5',
     'bias_worst_case_rad_s', 'bias_quadrature_rad_s', 'bias_phase_error_rad_s', 'bias_misalignment_rad_s', 'bias_centrifugal_rad_s', 'bias_gravity_rad_s',
     'bias_per_angular_acceleration_s',
   ];
@@ -23,7 +23,7 @@ export function sensingCsv(a: SensingAnswer): string {
       rows.push([
         o.side, o.role, axis, x.channel?.axis, x.channel?.order, x.channel?.frequency, x.channel?.referencePhase,
         x.scaleFactor, x.rate, x.signal, x.noise?.density, x.noise?.sigma, x.noise?.limitedBy,
-        x.snr, x.minimumRate, x.rateNoiseDensity, x.angleRandomWalk,
+        x.snr, x.minimumRate, x.detectable, x.rateNoiseDensity, x.angleRandomWalk,
         b?.worstCase, b?.quadrature, b?.phaseError, b?.misalignment, b?.centrifugal, b?.gravity, b?.perAngularAcceleration.inPhase,
       ]);
     }
@@ -34,6 +34,7 @@ export function sensingCsv(a: SensingAnswer): string {
     row[1] = 'both';
     row[2] = axis;
     row[14] = a.pair[axis].minimumRate;
+    row[15] = a.pair[axis].detectable;
     rows.push(row);
   }
   return toCsv(header, rows);

@@ -99,7 +99,7 @@ async function expectPlotsMatch(answer: Forces, axis: string): Promise<void> {
   }
 }
 
-interface AxisSensing { snr: number | null; minimumRate: number | null }
+interface AxisSensing { snr: number | null; minimumRate: number | null; detectable?: boolean | null }
 interface Sensing { organs: { role: string; axes: Record<string, AxisSensing> }[]; pair: Record<string, { minimumRate: number | null }> }
 const DEG = Math.PI / 180;
 
@@ -110,6 +110,13 @@ const DEG = Math.PI / 180;
 async function expectDetectionMatches(doc: Json): Promise<number> {
   const sensing = await api<Sensing>('sensing', doc);
   expect(sensing.status).toBe(200);
+  // "this turn" in the summary: the specified organ's verdict on the scenario's rate, per axis.
+  const verdicts = await page.$$eval('.min-rates tbody tr', (rows) => rows.map((r) => r.children[2]?.textContent ?? ''));
+  const organ = sensing.body.organs.find((o) => o.role === 'specified');
+  expect(verdicts.map((v) => v.split(' ')[0])).toEqual(['roll', 'pitch', 'yaw'].map((ax) => {
+    const d = organ?.axes[ax]?.detectable;
+    return d === true ? 'seen' : d === false ? 'missed' : '–';
+  }));
   const p = await plots();
   let checked = 0;
   for (const ax of ['roll', 'pitch', 'yaw']) {

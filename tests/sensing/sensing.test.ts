@@ -5,6 +5,7 @@ import { CH } from '../../src/sensing/detection.js';
 import { demodulate, lineOutputs } from '../../src/sensing/lockin.js';
 import { estimateRates } from '../../src/sensing/pair.js';
 import { lineOf, prepareSensing, rateSweep, sensing, sensingOf } from '../../src/sensing/sensing.js';
+import { sensingCsv } from '../../src/sensing/table.js';
 import { answerOf, compiled, DEG, example, withFields } from './helpers.js';
 import { mean, normalSource, std } from './random.js';
 
@@ -46,6 +47,33 @@ describe('sensing(example)', () => {
     expect(b.organs).toEqual(a.organs);
     expect(b.pair).toEqual(a.pair);
     expect(a.warnings.join(' ')).toMatch(/no sensor block/);
+  });
+
+  it('says whether the scenario\'s rate is detected: |signal|/σ ≥ threshold per organ, |Ω| ≥ the pair\'s minimum rate; null at zero rate or without noise', () => {
+    const base = example('fly-sensing');
+    // fly-sensing: 200 deg/s yaw, no roll or pitch; SNR 18.4 on the yaw channel (docs/sensing.md table).
+    for (const [threshold, yawSeen] of [[1, true], [18, true], [19, false], [100, false]] as const) {
+      const a = answerOf(withFields(base, { sensor: { ...(base.sensor as object), threshold } }));
+      for (const o of a.organs) {
+        const yaw = o.axes.yaw;
+        expect(Math.abs(yaw.signal) / (yaw.noise?.sigma as number) >= threshold).toBe(yawSeen);
+        expect(yaw.detectable).toBe(yawSeen);
+        expect(o.axes.roll.detectable).toBeNull();
+        expect(o.axes.pitch.detectable).toBeNull();
+      }
+      const pairMin = a.pair.yaw.minimumRate as number;
+      expect(a.pair.yaw.detectable).toBe(Math.abs(200 * DEG) >= pairMin);
+      expect(a.pair.roll.detectable).toBeNull();
+    }
+    const quiet = example('fly-sensing');
+    quiet.sensor = { integration: { beats: 10 } }; // no readout noise and no sense mode: no noise model
+    const none = answerOf(quiet);
+    expect(none.organs[0]?.axes.yaw.detectable).toBeNull();
+    expect(none.pair.yaw.detectable).toBeNull();
+    const csv = sensingCsv(answerOf(base)).split('\r\n');
+    const col = (csv[0] as string).split(',').indexOf('detectable');
+    expect(col).toBeGreaterThan(0);
+    expect(csv.slice(1, 4).map((r) => r.split(',')[col])).toEqual(['', '', 'true']);
   });
 
   it.each(['fly-sensing', 'mems-sensing'])('%s: output.lines adds the strain and sense-mode line tables and changes nothing else', (name) => {

@@ -12,7 +12,7 @@ import { eng, RAD_TO_DEG } from './format.js';
 import { plotRecords, resizePlots } from './plots/base.js';
 import { drawLoads } from './plots/loads.js';
 import { drawSpectrum } from './plots/spectrum.js';
-import { BODY_AXES, type BodyAxis, drawDetection, type SensingAnswer, type SweepAnswer, sweepRequests } from './plots/snr.js';
+import { type AxisSensing, BODY_AXES, type BodyAxis, drawDetection, type SensingAnswer, type SweepAnswer, sweepRequests } from './plots/snr.js';
 import { drawTurn, type TurnAnswer } from './plots/turn.js';
 import { loadLocal, readHash, saveLocal, writeHash } from './share.js';
 import { drawSketch, type SketchGeometry, type ViewName } from './sketch.js';
@@ -174,6 +174,13 @@ function summaryRow(label: string, value: string, cls = ''): HTMLElement {
   return h('div', { class: `readout ${cls}` }, h('dt', {}, label), h('dd', {}, value));
 }
 
+/** Whether the scenario's rate about an axis is detected by the organ as specified (its SNR beside it). */
+function verdictCell(one: AxisSensing | undefined): HTMLElement {
+  if (one?.detectable === null || one?.detectable === undefined) return h('td', { title: 'no rate about this axis, or no noise model' }, '–');
+  const snr = typeof one.snr === 'number' ? ` (SNR ${one.snr < 10 ? one.snr.toPrecision(2) : Math.round(one.snr)})` : '';
+  return h('td', { class: one.detectable ? 'seen' : 'missed', title: 'SNR at the scenario\'s rate against the threshold' }, `${one.detectable ? 'seen' : 'missed'}${snr}`);
+}
+
 const rateText = (r: number | null | undefined): string => (typeof r === 'number' && Number.isFinite(r) ? eng(r * RAD_TO_DEG, 'deg/s') : '–');
 
 function drawSummary(): void {
@@ -191,10 +198,10 @@ function drawSummary(): void {
   const s = bench.answers.sensing;
   const so = s?.organs.find((o) => o.role === 'specified') ?? s?.organs[0];
   if (s && so) {
-    const head = h('tr', {}, h('th', { scope: 'col' }, 'axis'), h('th', { scope: 'col' }, 'best line'), h('th', { scope: 'col' }, 'organ'), h('th', { scope: 'col' }, 'pair'));
+    const head = h('tr', {}, h('th', { scope: 'col' }, 'axis'), h('th', { scope: 'col' }, 'best line'), h('th', { scope: 'col' }, 'this turn'), h('th', { scope: 'col' }, 'organ'), h('th', { scope: 'col' }, 'pair'));
     const body = BODY_AXES.map((ax) => {
       const one = so.axes[ax];
-      return h('tr', {}, h('th', { scope: 'row' }, ax), h('td', {}, one?.channel ? `${one.channel.axis} k=${one.channel.order}` : '–'), h('td', {}, rateText(one?.minimumRate)), h('td', {}, rateText(s.pair?.[ax]?.minimumRate)));
+      return h('tr', {}, h('th', { scope: 'row' }, ax), h('td', {}, one?.channel ? `${one.channel.axis} k=${one.channel.order}` : '–'), verdictCell(one), h('td', {}, rateText(one?.minimumRate)), h('td', {}, rateText(s.pair?.[ax]?.minimumRate)));
     });
     const read = so.read ? `${so.read.quantity} (${so.read.unit})` : '';
     const noisy = s.organs.some((o) => BODY_AXES.some((ax) => (o.axes[ax]?.noise?.density ?? 0) > 0));

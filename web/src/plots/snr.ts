@@ -19,6 +19,7 @@ export interface AxisSensing {
   rate?: number;
   snr: number | null;
   minimumRate: number | null;
+  detectable?: boolean | null;
   rateNoiseDensity?: number | null;
   angleRandomWalk?: number | null;
   noise?: { density: number; limitedBy: string } | null;
@@ -30,7 +31,7 @@ export interface SensingAnswer {
   warnings?: string[];
   integration?: { time: number; beats: number };
   organs: { side: string; role: string; read?: { quantity: string; unit: string }; axes: Record<BodyAxis, AxisSensing> }[];
-  pair?: Record<BodyAxis, { minimumRate: number | null; observable?: boolean }> & { conditionNumber?: number | null };
+  pair?: Record<BodyAxis, { minimumRate: number | null; observable?: boolean; detectable?: boolean | null }> & { conditionNumber?: number | null };
 }
 
 export interface SweepAnswer {
