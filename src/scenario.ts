@@ -213,11 +213,11 @@ const sampling = z.strictObject({
 });
 
 const output = z.strictObject({
-  series: z.boolean().default(true),
+  series: z.boolean().default(true).meta({ description: 'include time series (forces: load series; sensing: strain and sense-mode series; turns: decimated series)' }),
   /** Sensing: add the per-harmonic line tables of the strain and sense-mode blocks. */
-  lines: z.boolean().default(false),
-  path: z.enum(['auto', 'closed-form', 'sampled'], { error: (iss) => `${show(iss.input)} is not a path; expected "auto", "closed-form" or "sampled"` }).default('auto'),
-  decimate: DecimateSchema.optional(),
+  lines: z.boolean().default(false).meta({ description: 'sensing: add the per-harmonic strain and sense-mode line tables' }),
+  path: z.enum(['auto', 'closed-form', 'sampled'], { error: (iss) => `${show(iss.input)} is not a path; expected "auto", "closed-form" or "sampled"` }).default('auto').meta({ description: 'auto takes the closed form where it applies (rotary: a sine stroke without deviation; linear: a stroke given as harmonics), else the sampled path' }),
+  decimate: DecimateSchema.optional().meta({ description: 'turns: keep every k-th sample ({ "every": k }) or per-beat envelopes ({ "envelope": true })' }),
 });
 
 export const ScenarioSchema = z
