@@ -1,8 +1,9 @@
 #!/usr/bin/env python3
 """A notebook-style client of the beatforce service, standard library only.
 
-Fetches a shipped scenario, runs a sweep of the yaw rate (CSV), prints the table, then asks for
-the sensing figures of the pair. Usage:
+Fetches a shipped scenario, runs a sweep of the yaw rate (CSV), prints the table, asks for the
+sensing figures of the pair, then takes a measured stroke trace to a per-axis verdict (detected or
+not, on which harmonic, with what strain). Usage:
 
     python3 examples/notebook_client.py [BASE_URL]
 
@@ -76,6 +77,23 @@ def main():
     print(f"pair minimum detectable rate (rad/s), input hash {answer['inputHash']}:")
     for axis in ("roll", "pitch", "yaw"):
         print(f"  {axis}: {pair[axis]['minimumRate']}")
+
+    # From a measured stroke trace to a verdict in one request: the digitised trace of the
+    # measured-stroke example (fitted to harmonics by the service) on the stalk and strain gauge of
+    # fly-sensing. Per body axis: is the scenario's rate detected, on which line, with what strain.
+    measured, _ = call(base, "/api/v1/examples/measured-stroke")
+    measured["organ"]["stalk"] = sensing_scenario["organ"]["stalk"]
+    measured["sensor"] = sensing_scenario["sensor"]
+    measured["output"] = {"series": False}
+    verdict, _ = call(base, "/api/v1/sensing", measured)
+    organ = verdict["organs"][0]
+    print(f"measured stroke, {organ['side']} organ, {organ['read']['quantity']} at the stalk base ({verdict['path']} path):")
+    for axis in ("roll", "pitch", "yaw"):
+        a = organ["axes"][axis]
+        line = a["channel"]
+        seen = {True: "detectable", False: "not detectable", None: "no rate about this axis"}[a["detectable"]]
+        print(f"  {axis}: {seen}; {line['axis']} line k={line['order']} ({line['frequency']:.0f} Hz), "
+              f"signal {a['signal'] * 1e6:.4f} microstrain, SNR {a['snr']:.2f}")
 
 
 if __name__ == "__main__":

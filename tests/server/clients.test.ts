@@ -35,7 +35,7 @@ afterAll(async () => {
 });
 
 describe('examples/notebook_client.py against a live server', () => {
-  it.skipIf(!python)('runs a sweep and prints the table the service computes, then the pair minimum rates', async () => {
+  it.skipIf(!python)('runs a sweep and prints the table the service computes, the pair minimum rates, and a measured trace\'s verdict per axis', async () => {
     const { stdout } = await run('python3', [file('examples/notebook_client.py'), base], { timeout: 60_000, env: { ...process.env, BEATFORCE_URL: '' } });
     const lines = stdout.trimEnd().split('\n');
     expect(lines[0]).toBe(`beatforce ${PKG_VERSION} at ${base}`);
@@ -57,7 +57,20 @@ describe('examples/notebook_client.py against a live server', () => {
     const s = sensing(example('fly-sensing'));
     if (!s.ok) throw new Error('fly-sensing invalid');
     expect(lines[14]).toMatch(/^pair minimum detectable rate \(rad\/s\), input hash [0-9a-f]{16}:$/);
-    expect(lines.slice(15)).toEqual((['roll', 'pitch', 'yaw'] as const).map((a) => `  ${a}: ${String(s.answer.pair[a].minimumRate)}`));
+    expect(lines.slice(15, 18)).toEqual((['roll', 'pitch', 'yaw'] as const).map((a) => `  ${a}: ${String(s.answer.pair[a].minimumRate)}`));
+    // The measured trace on fly-sensing's stalk and readout: the verdict printed is the library's.
+    const measured = { ...example('measured-stroke'), sensor: example('fly-sensing').sensor, output: { series: false } } as Record<string, unknown>;
+    measured.organ = { ...(measured.organ as object), stalk: (example('fly-sensing').organ as Record<string, unknown>).stalk };
+    const m = sensing(measured);
+    if (!m.ok) throw new Error(JSON.stringify(m.issues));
+    const organ = m.answer.organs[0];
+    expect(lines[18]).toBe(`measured stroke, ${organ?.side} organ, strain at the stalk base (${m.answer.path} path):`);
+    expect(lines.slice(19)).toEqual((['roll', 'pitch', 'yaw'] as const).map((ax) => {
+      const a = organ?.axes[ax];
+      const seen = a?.detectable === true ? 'detectable' : a?.detectable === false ? 'not detectable' : 'no rate about this axis';
+      return `  ${ax}: ${seen}; ${a?.channel?.axis} line k=${a?.channel?.order} (${a?.channel?.frequency.toFixed(0)} Hz), signal ${((a?.signal ?? NaN) * 1e6).toFixed(4)} microstrain, SNR ${(a?.snr ?? NaN).toFixed(2)}`;
+    }));
+    expect(lines[21]).toMatch(/^ {2}yaw: detectable; normal line k=2 \(350 Hz\)/);
   });
 
   it.skipIf(!python)('exits with a clear message, no traceback, when the server is not there', async () => {
