@@ -8,8 +8,8 @@ export const sensingCommand: Command = {
   usage: `beatforce sensing FILE|- [--format json|csv] [--compact]
 
   FILE        a scenario document (JSON), with optional organ.stalk, organ.senseMode and sensor;
-              - reads standard input. In the document, output.lines: true adds the strain and
-              sense-mode line tables, output.series: true their series
+              - reads standard input. In the document, output.lines (default false) adds the
+              strain and sense-mode line tables, output.series (default true) their series
   --format    json (default: the answer of POST /api/v1/sensing) or csv (one row per organ and
               body axis: channel, scale factor, noise, SNR, minimum rate, detectable, ARW, bias;
               then the pair's minimum rates; units in the header)
