@@ -3,6 +3,7 @@
  * BEATFORCE_CORS_ORIGINS sets the CORS allow-list; BEATFORCE_LOG=1 logs every request).
  * Logs one line with the address; SIGINT or SIGTERM closes the server and exits.
  */
+import { scenarioParser } from '../src/scenario.js';
 import { VERSION } from '../src/version.js';
 import { buildApp } from './app.js';
 import { parseOrigins } from './cors.js';
@@ -23,6 +24,8 @@ try {
 }
 
 const app = buildApp({ corsOrigins, logger: process.env.BEATFORCE_LOG === '1' ? { level: 'info' } : false });
+// A service parses many documents: compile the scenario parser (about 60 ms) before the first request.
+scenarioParser();
 
 let closing = false;
 const shutdown = (signal: string) => {
