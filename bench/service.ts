@@ -3,6 +3,9 @@
  * process (logger off, as `npm start` runs it):
  *   - GET /health and POST /api/v1/sensing (a shipped example), 32 connections, in the same run:
  *     sensing at ≥ 0.3 × the health rate, p99 latency < 20 ms;
+ *   - the floor under any POST answer here, for reference: a bare fastify server in this process
+ *     that parses the same request body and answers a constant buffer as long as the sensing
+ *     answer, doing no other work (what the sensing route costs beyond it is ours to cut);
  *   - POST /api/v1/forces for the default example, for reference;
  *   - a 10,000-point rate sweep end to end over HTTP (fetch, JSON answer): < 100 ms (median).
  *
@@ -18,6 +21,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { createRequire } from 'node:module';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
+import Fastify from 'fastify';
 import { buildApp } from '../server/app.js';
 import type { BenchRow, Suite } from './run.js';
 
@@ -142,6 +146,28 @@ export const serviceSuite: Suite = {
         note: `p99 ${sensing.p99} ms (target < ${P99_TARGET_MS} ms) at load average ${loadavg()[0]?.toFixed(2)}; errors ${sensing.errors}, non-2xx ${sensing.non2xx}`,
         pass: sensing.p99 < P99_TARGET_MS && sensing.errors === 0 && sensing.non2xx === 0,
       });
+
+      // The floor: the same request and an answer of the same length, with no work between them.
+      const sensingBytes = Buffer.from(await (await fetch(`${base}/api/v1/sensing`, { method: 'POST', body: exampleText(sensingExample), headers: { 'content-type': 'application/json' } })).arrayBuffer());
+      const bare = Fastify({ logger: false });
+      bare.post('/floor', (_request, reply) => {
+        reply.type('application/json; charset=utf-8').send(sensingBytes);
+      });
+      await bare.listen({ host: '127.0.0.1', port: 0 });
+      try {
+        const bareAddress = bare.server.address();
+        const floor = await load(`http://127.0.0.1:${typeof bareAddress === 'object' && bareAddress ? bareAddress.port : 0}/floor`, { method: 'POST', bodyFile: sensingFile });
+        rows.push({
+          name: `POST floor: bare fastify, same body, constant ${(sensingBytes.length / 1024).toFixed(1)} kB answer · reference`,
+          perEval: 1 / floor.cpuRate,
+          wall: 1 / floor.rate,
+          baseline: { name: 'GET /health', perEval: 1 / health.cpuRate },
+          note: `${(floor.cpuRate / health.cpuRate).toFixed(2)} of the health rate per CPU-s; the sensing route costs ${((1 / sensing.cpuRate - 1 / floor.cpuRate) * 1e6).toFixed(0)} µs above it, the target leaves ${((1 / (RATIO_TARGET * health.cpuRate) - 1 / floor.cpuRate) * 1e6).toFixed(0)} µs; ${describe(floor)}`,
+          pass: floor.errors === 0 && floor.non2xx === 0,
+        });
+      } finally {
+        await bare.close();
+      }
 
       const forces = await load(`${base}/api/v1/forces`, { method: 'POST', bodyFile: forcesFile });
       rows.push({ name: 'POST /api/v1/forces (fly-tilted-stroke, 384 kB answer) · reference', perEval: 1 / forces.cpuRate, wall: 1 / forces.rate, baseline: { name: 'GET /health', perEval: 1 / health.cpuRate }, note: describe(forces), pass: forces.errors === 0 && forces.non2xx === 0 });
