@@ -1,6 +1,6 @@
 /**
  * Limits on the work one request may ask for. Exceeding one is refused with its name
- * (HTTP 413 in the service, exit code 2 in the command line); see README "Limits".
+ * (HTTP 413 in the service, exit code 3 in the command line); see README "Limits".
  */
 export const LIMITS = {
   /** pointsPerBeat × beats for one organ in `forces`/`sensing`. */
@@ -17,6 +17,44 @@ export const LIMITS = {
   waveformTerms: 256,
   /** Numbers in the series of one turn answer (series × kept samples); decimate to fit. */
   seriesValues: 2_097_152,
+  /** Levels of arrays and objects in one document (a scenario needs at most 7, a sweep request 8). */
+  nesting: 32,
 } as const;
 
 export type LimitName = keyof typeof LIMITS;
+
+/**
+ * The path to the first array or object nested deeper than `max` levels in a parsed JSON value
+ * (the document itself is level 1), or undefined when none is. Iterative, so that a document of
+ * any depth is measured without using the call stack; the walk stops at the first offender.
+ */
+export function nestedTooDeep(doc: unknown, max: number = LIMITS.nesting): (string | number)[] | undefined {
+  if (doc === null || typeof doc !== 'object') return undefined;
+  // Containers still to visit, their depths and the index in `steps` of the key that led to each.
+  const todo: object[] = [doc];
+  const depths: number[] = [1];
+  const via: number[] = [-1];
+  const steps: { key: string | number; parent: number }[] = [];
+  while (todo.length > 0) {
+    const v = todo.pop() as object, depth = depths.pop() as number, at = via.pop() as number;
+    if (depth > max) {
+      const path: (string | number)[] = [];
+      for (let i = at; i >= 0; ) {
+        const s = steps[i] as { key: string | number; parent: number };
+        path.push(s.key);
+        i = s.parent;
+      }
+      return path.reverse();
+    }
+    const visit = (key: string | number, child: unknown): void => {
+      if (child === null || typeof child !== 'object') return;
+      steps.push({ key, parent: at });
+      todo.push(child);
+      depths.push(depth + 1);
+      via.push(steps.length - 1);
+    };
+    if (Array.isArray(v)) for (let i = 0; i < v.length; i++) visit(i, v[i]);
+    else for (const key of Object.keys(v)) visit(key, (v as Record<string, unknown>)[key]);
+  }
+  return undefined;
+}

@@ -11,6 +11,7 @@ export const show = (v: unknown): string => {
   if (typeof v === 'string') return `'${v}'`;
   if (v === undefined) return 'nothing';
   if (typeof v === 'number') return String(v);
+  // Documents reach the schemas only after the nesting check (nestingIssues), so v is finite and shallow.
   const s = JSON.stringify(v);
   return s === undefined ? String(v) : s.length > 40 ? `${s.slice(0, 37)}...` : s;
 };

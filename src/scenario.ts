@@ -6,7 +6,7 @@
 import { z } from 'zod';
 import { type DimensionName, DIMENSIONS, toSI } from './units.js';
 import { quantity, quantityOneOf, show } from './quantity.js';
-import { LIMITS, type LimitName } from './limits.js';
+import { LIMITS, nestedTooDeep, type LimitName } from './limits.js';
 import { dot, norm, type Vec3 } from './vec.js';
 import { DecimateSchema, ManeuverSchema } from './turn/schema.js';
 
@@ -327,8 +327,24 @@ let compiled: typeof ScenarioSchema | undefined;
 const COMPILE_AFTER = 8;
 let parses = 0;
 
+/** How deep a valid document of each kind nests (from the schemas; see LIMITS.nesting). */
+const NEEDS = { scenario: 'a scenario document needs at most 7', sweep: 'a sweep request needs at most 8' } as const;
+
+/**
+ * The refusal of a document nested deeper than LIMITS.nesting, checked before anything walks it
+ * recursively, so that no document can exhaust the stack (the service checks every body with it).
+ */
+export function nestingIssues(doc: unknown, kind: keyof typeof NEEDS): Issue[] {
+  const path = nestedTooDeep(doc);
+  if (!path) return [];
+  const shown = pathOf(path.slice(0, 8)) + (path.length > 8 ? '…' : '');
+  return [{ path: shown || '(document)', message: `is at nesting level ${path.length + 1}, over the limit of ${LIMITS.nesting} levels of arrays and objects; ${NEEDS[kind]}`, limit: 'nesting' }];
+}
+
 /** Validate a scenario document and convert it to SI. */
 export function parseScenario(input: unknown): ParseResult {
+  const deep = nestingIssues(input, 'scenario');
+  if (deep.length > 0) return { ok: false, issues: deep };
   const schema = compiled ?? (++parses > COMPILE_AFTER ? scenarioParser() : ScenarioSchema);
   const r = schema.safeParse(input);
   return r.success ? { ok: true, scenario: r.data } : { ok: false, issues: toIssues(r.error) };

@@ -24,7 +24,7 @@ import { choosePath, organNumbers, type Path } from './forces.js';
 import { amplitudePhase, lineIndex } from './harmonics.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { compile, type Model } from './model.js';
-import { parseScenario, toIssues, type Scenario } from './scenario.js';
+import { nestingIssues, parseScenario, toIssues, type Scenario } from './scenario.js';
 import { sensing as sensingOfDoc } from './sensing/sensing.js';
 import { DIMENSIONS, toSI, type DimensionName } from './units.js';
 import type { Vec3 } from './vec.js';
@@ -396,6 +396,8 @@ function pointValues(axes: readonly GridAxis[], i: number, out: number[]): numbe
 
 /** Run a sweep request (see the module comment). */
 export function sweep(request: unknown, options: SweepOptions = {}): SweepResult {
+  const deep = nestingIssues(request, 'sweep');
+  if (deep.length > 0) return { ok: false, issues: deep };
   const parsed = SweepRequestSchema.safeParse(request);
   if (!parsed.success) return { ok: false, issues: toIssues(parsed.error) };
   const req = parsed.data;

@@ -116,6 +116,13 @@ describe('beatforce forces: refusals', () => {
     expect(r.err).toBe('over a limit:\n  sampling.beats: 8192 points × 16 beats = 131072 samples is over the limit of 65536 samples per request\n');
   });
 
+  it('a document nested deeper than the limit exits 3, however deep', () => {
+    for (const command of ['forces', 'sensing', 'turn']) {
+      const r = cli([command, file('deep.json', '['.repeat(100_000) + ']'.repeat(100_000))]);
+      expect(r).toEqual({ code: 3, out: '', err: 'over a limit:\n  [0][0][0][0][0][0][0][0]…: is at nesting level 33, over the limit of 32 levels of arrays and objects; a scenario document needs at most 7\n' });
+    }
+  });
+
   it('an unreadable file or bad JSON exits 2 with the reason', () => {
     const missing = join(dir, 'missing.json');
     expect(cli(['forces', missing])).toEqual({ code: 2, out: '', err: `invalid scenario:\n  (file): cannot read ${missing}: ENOENT\n` });
