@@ -8,6 +8,7 @@ import { fileURLToPath } from 'node:url';
 import fastifyStatic from '@fastify/static';
 import Fastify, { type FastifyError, type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import { VERSION } from '../src/version.js';
+import { nestingIssues } from '../src/scenario.js';
 import { registerCors } from './cors.js';
 import { SERVICE_LIMITS } from './limits.js';
 import { frameworkError, sendError } from './errors.js';
@@ -92,6 +93,21 @@ export function buildApp(options: AppOptions = {}): FastifyInstance {
     done();
   });
   registerCors(app, options.corsOrigins ?? []);
+
+  // Before a route walks a body (the input hash, the parsers), a document nested deeper than
+  // LIMITS.nesting is refused in the core's own words, so that no body can exhaust the stack.
+  const sweepUrl = `${API_PREFIX}/sweep`;
+  app.addHook('preHandler', (request, reply, done) => {
+    const body = request.body;
+    if (!request.is404 && body !== null && typeof body === 'object') {
+      const issues = nestingIssues(body, request.url.startsWith(sweepUrl) ? 'sweep' : 'scenario');
+      if (issues.length > 0) {
+        sendError(reply, 'over_limit', issues);
+        return;
+      }
+    }
+    done();
+  });
 
   app.setErrorHandler((error, request, reply) => {
     const { code, issues } = frameworkError(error as FastifyError, request, bodyLimit);

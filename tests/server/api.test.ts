@@ -155,6 +155,27 @@ describe('POST /api/v1/forces', () => {
     expect((lines.json() as { organs: { series?: unknown }[] }).organs.every((o) => o.series === undefined)).toBe(true);
   });
 
+  it('refuses a body nested deeper than the limit with 413 on every route, before hashing it', async () => {
+    const deep = '['.repeat(500_000) + ']'.repeat(500_000); // 1 MB, under the body limit
+    for (const [url, needs] of [['/api/v1/forces', 'a scenario document needs at most 7'], ['/api/v1/sensing?format=csv', 'a scenario document needs at most 7'], ['/api/v1/turn', 'a scenario document needs at most 7'], ['/api/v1/sweep', 'a sweep request needs at most 8']] as const) {
+      const r = await post(url, deep);
+      expect(r.statusCode, url).toBe(413);
+      expect(r.json()).toEqual({
+        error: 'over_limit',
+        message: 'the request asks for more work than one request may',
+        issues: [{ path: '[0][0][0][0][0][0][0][0]…', message: `is at nesting level 33, over the limit of 32 levels of arrays and objects; ${needs}`, limit: 'nesting' }],
+        version: PKG_VERSION,
+        limit: 'nesting',
+      });
+    }
+    const inOrgan = { ...fly, organ: { ...(fly.organ as object), note: JSON.parse('{"a":'.repeat(40) + '1' + '}'.repeat(40)) as unknown } };
+    const r = await post('/api/v1/sensing', inOrgan);
+    expect(r.statusCode).toBe(413);
+    expect(r.json()).toMatchObject({ issues: [{ path: 'organ.note.a.a.a.a.a.a…', limit: 'nesting' }] });
+    // A route that takes no body answers as before.
+    expect((await post('/api/v1/examples', deep)).statusCode).toBe(405);
+  });
+
   it('refuses a body over the size limit with 413 in the same shape', async () => {
     const big = { ...fly, description: 'x'.repeat(2 * 1024 * 1024) };
     const r = await post('/api/v1/forces', big);
