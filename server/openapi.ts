@@ -26,10 +26,14 @@ const toSchema = (schema: z.ZodType, io: 'input' | 'output', refs: ReadonlyMap<z
     io,
     unrepresentable: 'any',
     override: (ctx) => {
-      const ref = refs.get(ctx.zodSchema as unknown as z.ZodType);
+      // A required field of a referenced schema (`.nonoptional()`, for its own refusal) is the reference too.
+      const own = ctx.zodSchema as unknown as z.ZodType;
+      const target = own instanceof z.ZodNonOptional ? (own.unwrap() as z.ZodType) : own;
+      const ref = refs.get(target);
       if (ref === undefined) return;
       const js = ctx.jsonSchema as Json;
-      for (const k of Object.keys(js)) if (k !== 'description') delete js[k];
+      for (const k of Object.keys(js)) delete js[k];
+      if (target.description !== undefined) js.description = target.description;
       js.$ref = `#/components/schemas/${ref}`;
     },
   }) as Json;

@@ -131,7 +131,7 @@ const OutputSchema = z.union([LineOutputSchema, SensingOutputSchema], {
 
 export const SweepRequestSchema = z.strictObject(
   {
-    scenario: ScenarioDocumentSchema,
+    scenario: ScenarioDocumentSchema.nonoptional({ error: 'is required; expected a scenario document, as for POST /api/v1/forces' }),
     vary: z
       .array(VarySchema, { error: (iss) => `${show(iss.input)} is not a list of grid axes` })
       .min(1, 'is empty; expected one or two grid axes')

@@ -206,6 +206,7 @@ describe('sweep(request): refusals name the field', () => {
       { path: 'scenario.organ.rest', message: 'nothing is not a direction; expected three numbers [x, y, z] in body axes' },
       { path: 'scenario.organ.normal', message: 'nothing is not a direction; expected three numbers [x, y, z] in body axes' },
     ]],
+    ['a request without a scenario', { vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line] }, [{ path: 'scenario', message: 'is required; expected a scenario document, as for POST /api/v1/forces' }]],
     ['not an object', 'sweep', [{ path: '(document)', message: "'sweep' is not a sweep request; expected { \"scenario\", \"vary\", \"outputs\" }" }]],
   ];
   for (const [what, request, issues] of cases) {
