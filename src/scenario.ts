@@ -178,7 +178,7 @@ const linear = z.strictObject({
 
 const organ = z.preprocess(
   (v) => (v !== null && typeof v === 'object' && !Array.isArray(v) && !('drive' in v) ? { drive: 'rotary', ...v } : v),
-  z.discriminatedUnion('drive', [rotary, linear], { error: (iss) => (iss.input === undefined || iss.input === null || typeof iss.input !== 'object' ? `${show(iss.input)} is not an organ; expected an object` : `drive ${show((iss.input as Record<string, unknown>).drive)} is not known; expected "rotary" or "linear"`) }),
+  z.discriminatedUnion('drive', [rotary, linear], { error: (iss) => (iss.input === undefined || iss.input === null || typeof iss.input !== 'object' ? `${show(iss.input)} is not an organ; expected an object` : `${show((iss.input as Record<string, unknown>).drive)} is not a drive; expected "rotary" or "linear"`) }),
 );
 
 // ---- body, sensor, sampling -------------------------------------------------------------------
@@ -341,11 +341,23 @@ export function nestingIssues(doc: unknown, kind: keyof typeof NEEDS): Issue[] {
   return [{ path: shown || '(document)', message: `is at nesting level ${path.length + 1}, over the limit of ${LIMITS.nesting} levels of arrays and objects; ${NEEDS[kind]}`, limit: 'nesting' }];
 }
 
+const TYPE_WORDS: Readonly<Record<string, string>> = { string: 'a string', number: 'a number', boolean: 'true or false', object: 'an object', array: 'a list' };
+
+/**
+ * The words of a refusal where a field's schema gives none of its own (plain objects, strings,
+ * flags): the value and what was expected, in the project's wording, for every parse of a document.
+ */
+export const plainWords: z.core.$ZodErrorMap = (iss) => {
+  if (iss.code !== 'invalid_type') return undefined;
+  const what = TYPE_WORDS[iss.expected] ?? iss.expected;
+  return iss.input === undefined ? `is required; expected ${what}` : `${show(iss.input)} is not ${what}`;
+};
+
 /** Validate a scenario document and convert it to SI. */
 export function parseScenario(input: unknown): ParseResult {
   const deep = nestingIssues(input, 'scenario');
   if (deep.length > 0) return { ok: false, issues: deep };
   const schema = compiled ?? (++parses > COMPILE_AFTER ? scenarioParser() : ScenarioSchema);
-  const r = schema.safeParse(input);
+  const r = schema.safeParse(input, { error: plainWords });
   return r.success ? { ok: true, scenario: r.data } : { ok: false, issues: toIssues(r.error) };
 }

@@ -24,7 +24,7 @@ import { choosePath, organNumbers, type Path } from './forces.js';
 import { amplitudePhase, lineIndex } from './harmonics.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { compile, type Model } from './model.js';
-import { nestingIssues, parseScenario, toIssues, type Scenario } from './scenario.js';
+import { nestingIssues, parseScenario, plainWords, toIssues, type Scenario } from './scenario.js';
 import { sensing as sensingOfDoc } from './sensing/sensing.js';
 import { DIMENSIONS, toSI, type DimensionName } from './units.js';
 import type { Vec3 } from './vec.js';
@@ -398,7 +398,7 @@ function pointValues(axes: readonly GridAxis[], i: number, out: number[]): numbe
 export function sweep(request: unknown, options: SweepOptions = {}): SweepResult {
   const deep = nestingIssues(request, 'sweep');
   if (deep.length > 0) return { ok: false, issues: deep };
-  const parsed = SweepRequestSchema.safeParse(request);
+  const parsed = SweepRequestSchema.safeParse(request, { error: plainWords });
   if (!parsed.success) return { ok: false, issues: toIssues(parsed.error) };
   const req = parsed.data;
   const issues: SweepIssue[] = [];

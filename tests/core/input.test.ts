@@ -183,6 +183,17 @@ describe('forces(doc) refuses bad input, naming the field, the value and what wa
     ]);
   });
 
+  it('plain fields of the wrong type name the value and the type expected, in the same words everywhere', () => {
+    expect(issuesOf({ organ, sampling: 42, name: null, description: {}, sensor: 'x', output: { series: 'yes' } })).toEqual([
+      { path: 'sensor', message: "'x' is not an object" },
+      { path: 'sampling', message: '42 is not an object' },
+      { path: 'output.series', message: "'yes' is not true or false" },
+      { path: 'name', message: 'null is not a string' },
+      { path: 'description', message: '{} is not a string' },
+    ]);
+    expect(issuesOf({ organ: { ...organ, drive: 'rotory' } })).toEqual([{ path: 'organ.drive', message: '\'rotory\' is not a drive; expected "rotary" or "linear"' }]);
+  });
+
   it('harmonics beyond Nyquist and wrong types', () => {
     expect(issuesOf({ organ, sampling: { pointsPerBeat: 16, harmonics: 8 } })).toEqual([
       { path: 'sampling.harmonics', message: '8 harmonics need at least 18 points per beat (Nyquist); pointsPerBeat is 16' },

@@ -207,6 +207,7 @@ describe('sweep(request): refusals name the field', () => {
       { path: 'scenario.organ.normal', message: 'nothing is not a direction; expected three numbers [x, y, z] in body axes' },
     ]],
     ['a request without a scenario', { vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line] }, [{ path: 'scenario', message: 'is required; expected a scenario document, as for POST /api/v1/forces' }]],
+    ['an output line that is not an object', { scenario: fly, vary: [{ field: 'organ.mass', values: [1] }], outputs: [{ line: 7 }, { sensing: 5 }] }, [{ path: 'outputs[0].line', message: '7 is not an object' }, { path: 'outputs[1].sensing', message: '5 is not a string' }]],
     ['not an object', 'sweep', [{ path: '(document)', message: "'sweep' is not a sweep request; expected { \"scenario\", \"vary\", \"outputs\" }" }]],
   ];
   for (const [what, request, issues] of cases) {
