@@ -66,7 +66,13 @@ export function inputIssues(where: 'query' | 'params', error: z.ZodError, input:
 const EMPTY = Object.freeze({});
 
 function parseOr<T>(schema: z.ZodType<T> | undefined, where: 'query' | 'params', input: unknown): { ok: true; value: T } | { ok: false; issues: ServiceIssue[] } {
-  if (!schema) return { ok: true, value: EMPTY as T };
+  if (!schema) {
+    // A route without parameters refuses any, as the others refuse unknown ones (`?format=csv` on
+    // a JSON-only answer would otherwise be ignored without a word).
+    const keys = input !== null && typeof input === 'object' ? Object.keys(input) : [];
+    if (keys.length === 0) return { ok: true, value: EMPTY as T };
+    return { ok: false, issues: keys.map((k) => ({ path: `${where}.${k}`, message: k === 'format' ? 'is not a parameter of this route: it answers JSON only' : 'is not a parameter of this route' })) };
+  }
   const r = schema.safeParse(input ?? {});
   return r.success ? { ok: true, value: r.data } : { ok: false, issues: inputIssues(where, r.error, input) };
 }

@@ -433,6 +433,21 @@ describe('GET /api/v1/examples', () => {
       version: PKG_VERSION,
     });
   });
+
+  it('refuses query parameters on routes that take none, as the others do (docs/service.md, Formats)', async () => {
+    for (const url of ['/api/v1/examples?format=csv', '/api/v1/examples/fly-sensing?format=csv', '/api/v1/openapi.json?format=csv', '/health?format=csv']) {
+      const r = await app.inject({ method: 'GET', url });
+      expect(r.statusCode, url).toBe(400);
+      expect(r.json()).toEqual({
+        error: 'invalid_request',
+        message: 'the request is invalid',
+        issues: [{ path: 'query.format', message: 'is not a parameter of this route: it answers JSON only' }],
+        version: PKG_VERSION,
+      });
+    }
+    const typo = await app.inject({ method: 'GET', url: '/api/v1/examples?name=fly-sensing&x=1' });
+    expect(typo.json()).toMatchObject({ issues: [{ path: 'query.name', message: 'is not a parameter of this route' }, { path: 'query.x', message: 'is not a parameter of this route' }] });
+  });
 });
 
 describe('static page', () => {
