@@ -87,6 +87,7 @@ export function answerDocument<A extends { warnings: string[] }>(
   const format = (opts.format as string | undefined) ?? 'json';
   if (format !== 'json' && format !== 'csv') throw new UsageError(`--format ${format}: expected json or csv`);
   if (opts.series && format !== 'csv') throw new UsageError('--series goes with --format csv');
+  if (positional.length > 1) throw new UsageError(`one scenario FILE at a time; got ${positional.length}: ${positional.join(' ')}`);
   const read = readDocument(positional[0], io);
   if ('issues' in read) return reportIssues(read.issues, io);
   const r = compute(read.doc);

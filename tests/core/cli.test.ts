@@ -2,6 +2,7 @@
  * The command line (`beatforce forces`), run through main() with a fake Io: the same answer as the
  * library, CSV tables, help, and the exit codes and messages for bad input, limits and bad files.
  */
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -123,6 +124,13 @@ describe('beatforce forces: refusals', () => {
     }
   });
 
+  it('more than one FILE is a usage error (exit 1), not a silent choice of the first', () => {
+    const r = cli(['forces', example('fly-tilted-stroke'), example('mems-tuning-fork')]);
+    expect(r.code).toBe(1);
+    expect(r.out).toBe('');
+    expect(r.err).toMatch(/^beatforce forces: one scenario FILE at a time; got 2: \S+fly-tilted-stroke\.json \S+mems-tuning-fork\.json\nusage: beatforce forces FILE/);
+  });
+
   it('an unreadable file or bad JSON exits 2 with the reason', () => {
     const missing = join(dir, 'missing.json');
     expect(cli(['forces', missing])).toEqual({ code: 2, out: '', err: `invalid scenario:\n  (file): cannot read ${missing}: ENOENT\n` });
@@ -132,4 +140,15 @@ describe('beatforce forces: refusals', () => {
     expect(r.err).toMatch(/^invalid scenario:\n {2}\(document\): is not valid JSON: /);
     expect(cli(['forces', '-'], 'not json').code).toBe(2);
   });
+});
+
+describe('beatforce as a process', () => {
+  it('ends quietly with exit 0 when its reader closes the pipe early (| head)', () => {
+    // The reader takes one line and exits; the command's remaining output meets a closed pipe.
+    const root = new URL('../../', import.meta.url).pathname;
+    const r = spawnSync('bash', ['-o', 'pipefail', '-c', `"${process.execPath}" --import tsx cli/bin.ts forces examples/fly-tilted-stroke.json --format csv --series | head -n 1`], { cwd: root, encoding: 'utf8' });
+    expect(r.status).toBe(0);
+    expect(r.stdout.split('\n')[0]).toMatch(/^side,role,time_s,stroke_rad,/);
+    expect(r.stderr).toBe('');
+  }, 30_000);
 });
