@@ -8,6 +8,7 @@ import { closedFormApplies, closedFormHarmonics } from './closedForm.js';
 import { allocHarmonics, loadHarmonics, toLines, type HarmonicTable, type Line } from './harmonics.js';
 import { allocKinematics, allocLoads, constantMotion, kinematics, loads, type Kinematics, type LoadSeries, type MotionSeries } from './loads.js';
 import { compile, mirroredMotion, type Geometry, type Model, type Motion, type Side } from './model.js';
+import { finiteAnswer } from './finite.js';
 import { parseScenario, type Issue, type Scenario } from './scenario.js';
 import { VERSION } from './version.js';
 import { beatTable, contentOrder, sampleBeat, type FitReport, type WaveSamples } from './waveform.js';
@@ -220,11 +221,14 @@ export function forces(doc: unknown): ForcesResult {
   const s = parsed.scenario;
   const compiled = compile(s);
   if (!compiled.ok) return compiled;
-  return forcesOf(s, compiled.model);
+  return forcesOf(s, compiled.model, doc);
 }
 
-/** The forces answer for a parsed scenario and its compiled model. */
-export function forcesOf(s: Scenario, model: Model): ForcesResult {
+/**
+ * The forces answer for a parsed scenario and its compiled model; `doc`, the document as given,
+ * names the inputs in a refusal of an answer that overflowed (finite.ts).
+ */
+export function forcesOf(s: Scenario, model: Model, doc: unknown = s): ForcesResult {
   const chosen = choosePath(s, model);
   if ('issue' in chosen) return { ok: false, issues: [chosen.issue] };
   const { path } = chosen;
@@ -247,8 +251,8 @@ export function forcesOf(s: Scenario, model: Model): ForcesResult {
       ...(series ? { series } : {}),
     });
   }
-  return {
+  return finiteAnswer(doc, {
     ok: true,
     answer: { version: VERSION, path, scenario: s, units: UNITS, warnings: warningsFor(s, model, path), ...(model.fit ? { fit: model.fit } : {}), organs },
-  };
+  });
 }

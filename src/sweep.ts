@@ -22,6 +22,7 @@ import { axesOf, COMPONENTS, LINEAR_AXES, ROTARY_AXES, type Axis, type Component
 import { toCsv } from './csv.js';
 import { choosePath, organNumbers, type Path } from './forces.js';
 import { amplitudePhase, lineIndex } from './harmonics.js';
+import { overflowIssue } from './finite.js';
 import { LIMITS, type LimitName } from './limits.js';
 import { compile, type Model } from './model.js';
 import { nestingIssues, parseScenario, plainWords, toIssues, type Scenario } from './scenario.js';
@@ -475,6 +476,17 @@ function lineValue(o: LineOutput, pc: number, qc: number): number {
 
 const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
+/** The first of the numbers that is not finite (a line's p, q and value), or undefined. */
+const notFinite = (...xs: number[]): number | undefined => xs.find((x) => !Number.isFinite(x));
+
+/**
+ * The refusal of a grid point whose line value overflowed double precision (see finite.ts), the
+ * input of most extreme magnitude named from the document at that point.
+ */
+function overflowAt(req: SweepRequest, p: Plan, values: readonly number[], column: string, value: number): SweepResult {
+  return { ok: false, issues: prefixed([overflowIssue(docAt(req.scenario, p.axes, values), column, value)], 'scenario', where(p.axes, values)) };
+}
+
 function ratePolynomialSweep(req: SweepRequest, p: Plan): SweepResult {
   const values = new Array<number>(p.axes.length);
   const first = modelOf(docAt(req.scenario, p.axes, pointValues(p.axes, 0, values)), '');
@@ -522,6 +534,17 @@ function ratePolynomialSweep(req: SweepRequest, p: Plan): SweepResult {
     });
   }
 
+  const badSlot = C.findIndex((c) => !Number.isFinite(c));
+  if (badSlot >= 0) {
+    // The fit's evaluations at the grid's largest rate overflowed: refuse at that grid point.
+    let far = 0, farSize = -1;
+    for (let i = 0; i < p.points; i++) {
+      const size = Math.max(...pointValues(p.axes, i, values).map(Math.abs));
+      if (size > farSize) [far, farSize] = [i, size];
+    }
+    return overflowAt(req, p, pointValues(p.axes, far, values), lineName((p.lines[Math.floor(badSlot / 20)] as Plan['lines'][number]).out), C[badSlot] as number);
+  }
+
   const rows: (number | null)[][] = new Array(p.points);
   const w: [number, number, number] = [omega0[0] / scale, omega0[1] / scale, omega0[2] / scale];
   const base: [number, number, number] = [w[0], w[1], w[2]];
@@ -539,7 +562,13 @@ function ratePolynomialSweep(req: SweepRequest, p: Plan): SweepResult {
     for (let a = 0; a < nf; a++) w[which[a] as number] = (values[a] as number) / scale;
     const row = new Array<number | null>(nf + nl);
     for (let a = 0; a < nf; a++) row[a] = values[a] as number;
-    for (let j = 0; j < nl; j++) row[nf + j] = finiteOrNull(lineValue((p.lines[j] as Plan['lines'][number]).out, poly(2 * j), poly(2 * j + 1)));
+    for (let j = 0; j < nl; j++) {
+      const out = (p.lines[j] as Plan['lines'][number]).out;
+      const pj = poly(2 * j), qj = poly(2 * j + 1), v = lineValue(out, pj, qj);
+      const bad = notFinite(pj, qj, v);
+      if (bad !== undefined) return overflowAt(req, p, values, lineName(out), bad);
+      row[nf + j] = v;
+    }
     rows[i] = row;
   }
   const columns = [...fieldColumns(p), ...p.lines.map(({ out }) => ({ name: lineName(out), unit: lineUnit(out), kind: 'line' as const }))];
@@ -573,9 +602,13 @@ function perPointSweep(req: SweepRequest, p: Plan, options: SweepOptions): Sweep
       linePath ??= m.path;
       linePairs(m.model, p, m.path, 'specified', m.scenario, pq);
       if (p.lines.some((l) => l.out.line.organ === 'mirror')) linePairs(m.model, p, m.path, 'mirror', m.scenario, pq);
-      p.lines.forEach((l, j) => {
-        row[nf + (p.column.get(l.index) as number)] = finiteOrNull(lineValue(l.out, pq[2 * j] as number, pq[2 * j + 1] as number));
-      });
+      for (let j = 0; j < nl; j++) {
+        const l = p.lines[j] as Plan['lines'][number];
+        const pj = pq[2 * j] as number, qj = pq[2 * j + 1] as number, v = lineValue(l.out, pj, qj);
+        const bad = notFinite(pj, qj, v);
+        if (bad !== undefined) return overflowAt(req, p, values, lineName(l.out), bad);
+        row[nf + (p.column.get(l.index) as number)] = v;
+      }
     }
     if (p.sensing.length > 0) {
       const r = (options.sensing as SensingFn)(doc);

@@ -8,6 +8,7 @@ import { N_AXES, TOTAL } from '../components.js';
 import { choosePath, sampleOrgan, warningsFor, type Path } from '../forces.js';
 import { amplitudePhase } from '../harmonics.js';
 import { compile, mirroredMotion, type Model, type Side } from '../model.js';
+import { finiteAnswer } from '../finite.js';
 import { parseScenario, type Issue, type Scenario } from '../scenario.js';
 import { VERSION } from '../version.js';
 import { beatTable } from '../waveform.js';
@@ -660,10 +661,10 @@ export function sensingAnswer(P: SensingPlan): SensingAnswer {
   };
 }
 
-/** The sensing answer for a parsed scenario and its compiled model. */
-export function sensingOf(s: Scenario, model: Model): SensingResult {
+/** The sensing answer for a parsed scenario and its compiled model (`doc` as in `forcesOf`). */
+export function sensingOf(s: Scenario, model: Model, doc: unknown = s): SensingResult {
   const p = prepare(s, model, true);
-  return p.ok ? { ok: true, answer: sensingAnswer(p.prepared) } : p;
+  return p.ok ? finiteAnswer(doc, { ok: true, answer: sensingAnswer(p.prepared) }) : p;
 }
 
 /** The sensing answer for a scenario document (design §9): validated like `forces`. */
@@ -672,7 +673,7 @@ export function sensing(doc: unknown): SensingResult {
   if (!parsed.ok) return parsed;
   const compiled = compile(parsed.scenario);
   if (!compiled.ok) return compiled;
-  return sensingOf(parsed.scenario, compiled.model);
+  return sensingOf(parsed.scenario, compiled.model, doc);
 }
 
 // ---- sweeps over body rate ---------------------------------------------------------------------

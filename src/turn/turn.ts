@@ -9,6 +9,7 @@ import { axesOf, COMPONENTS, N_AXES, TOTAL, type Axis, type Component } from '..
 import { warningsFor } from '../forces.js';
 import { LIMITS } from '../limits.js';
 import { compile, STANDARD_GRAVITY, type Model, type Side } from '../model.js';
+import { finiteAnswer } from '../finite.js';
 import { parseScenario, type Issue, type Scenario } from '../scenario.js';
 import { QUANTITY_UNIT } from '../sensing/detection.js';
 import { demodulate, estimateRates, RATE_AXES, type Demodulated, type PairAnalysis, type Quantity } from '../sensing/index.js';
@@ -205,7 +206,7 @@ function turnWarnings(s: Scenario, model: Model, plan: TurnPlan, profile: RatePr
 export function turn(doc: unknown): TurnResult {
   const parsed = parseScenario(doc);
   if (!parsed.ok) return parsed;
-  return turnOf(parsed.scenario);
+  return turnOf(parsed.scenario, doc);
 }
 
 /** The numbers of a turn before they become an answer: the run, the channels and the read-out. */
@@ -237,8 +238,8 @@ export function turnNumbers(s: Scenario, model: Model, plan: TurnPlan, channels:
   return { plan, profile, run, channels: channels.channels, window, read };
 }
 
-/** The turn answer for a parsed scenario. */
-export function turnOf(s: Scenario): TurnResult {
+/** The turn answer for a parsed scenario (`doc` as in `forcesOf`). */
+export function turnOf(s: Scenario, doc: unknown = s): TurnResult {
   const planned = planOf(s);
   if ('issues' in planned) return { ok: false, issues: planned.issues };
   const { plan } = planned;
@@ -260,7 +261,7 @@ export function turnOf(s: Scenario): TurnResult {
   if (Math.abs(beatsPerIntegration - window) > 1e-9 * window) warnings.push(`sensor.integration is ${beatsPerIntegration.toPrecision(4)} beats; the turn's lock-in averages whole beats, ${window} of them`);
   const last = plan.samples - 1;
   const q = run.q;
-  return {
+  return finiteAnswer(doc, {
     ok: true,
     answer: {
       version: VERSION,
@@ -285,7 +286,7 @@ export function turnOf(s: Scenario): TurnResult {
       ...(run.strain ? { peakStrain: peakStrainOf(run, model) } : {}),
       ...(s.output.series ? { series: seriesOf(run, model, planned.decimation, ws) } : {}),
     },
-  };
+  });
 }
 
 function noiseOf(a: PairAnalysis): Nullable<Rates> {

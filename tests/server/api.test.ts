@@ -241,6 +241,23 @@ describe('POST /api/v1/forces', () => {
     expect((wild.json() as { issues: unknown }).issues).toEqual([{ path: 'organ.waveform', message: "the stroke's harmonics add up to 2.22e+305 rad, more than a full turn; expected a stroke within ±π (give angles as strings in degrees, or check samples.angleUnit)" }]);
   });
 
+  it('refuses an answer that would overflow double precision with 400 naming the input, instead of answering nulls', async () => {
+    const sensingDoc = example('fly-sensing') as { body: Record<string, unknown> };
+    const doc = { ...sensingDoc, body: { ...sensingDoc.body, rate: { yaw: '1e200 rad/s' } } };
+    const r = await post('/api/v1/sensing?format=csv', doc);
+    expect(r.statusCode).toBe(400);
+    expect(r.json()).toEqual({
+      error: 'invalid_scenario',
+      message: 'the scenario is invalid',
+      issues: [{
+        path: 'body.rate.yaw',
+        message: "'1e200 rad/s' is the input of most extreme magnitude, and the answer overflows double precision (organs[0].axes.roll.bias.centrifugal is NaN); expected magnitudes that a rate sensor can have; next in magnitude: organ.stalk.modulus = '5 GPa', organ.stalk.mass = '1 ug'",
+      }],
+      version: PKG_VERSION,
+      inputHash: expectedHash(doc),
+    });
+  });
+
   it('refuses an unknown format or query parameter with 400 naming the parameter', async () => {
     const r = await post('/api/v1/forces?format=xml&colour=red', fly);
     expect(r.statusCode).toBe(400);
