@@ -24,12 +24,32 @@ export const LIMITS = {
 export type LimitName = keyof typeof LIMITS;
 
 /**
+ * True when `v` (at level `depth`) holds an array or object deeper than `max`: the common case,
+ * without building paths. The recursion stops at level max + 1, so the stack stays shallow.
+ */
+function deeperThan(v: object, depth: number, max: number): boolean {
+  if (depth > max) return true;
+  if (Array.isArray(v)) {
+    for (let i = 0; i < v.length; i++) {
+      const x: unknown = v[i];
+      if (x !== null && typeof x === 'object' && deeperThan(x, depth + 1, max)) return true;
+    }
+    return false;
+  }
+  for (const k in v) {
+    const x = (v as Record<string, unknown>)[k];
+    if (x !== null && typeof x === 'object' && deeperThan(x, depth + 1, max)) return true;
+  }
+  return false;
+}
+
+/**
  * The path to the first array or object nested deeper than `max` levels in a parsed JSON value
  * (the document itself is level 1), or undefined when none is. Iterative, so that a document of
  * any depth is measured without using the call stack; the walk stops at the first offender.
  */
 export function nestedTooDeep(doc: unknown, max: number = LIMITS.nesting): (string | number)[] | undefined {
-  if (doc === null || typeof doc !== 'object') return undefined;
+  if (doc === null || typeof doc !== 'object' || !deeperThan(doc, 1, max)) return undefined;
   // Containers still to visit, their depths and the index in `steps` of the key that led to each.
   const todo: object[] = [doc];
   const depths: number[] = [1];
