@@ -11,7 +11,7 @@ import { VERSION } from '../src/version.js';
 import { nestingIssues } from '../src/scenario.js';
 import { registerCors } from './cors.js';
 import { SERVICE_LIMITS } from './limits.js';
-import { frameworkError, sendError } from './errors.js';
+import { answerClientError, frameworkError, sendError } from './errors.js';
 import { openApiDocument, type RouteGroup } from './openapi.js';
 import { routesPlugin, type AnyRoute } from './route.js';
 import { exampleRoutes, loadExamples } from './routes/examples.js';
@@ -83,6 +83,7 @@ export function buildApp(options: AppOptions = {}): FastifyInstance {
     return503OnClosing: true,
     forceCloseConnections: 'idle',
     routerOptions: { maxParamLength: 200 },
+    clientErrorHandler: (err, socket) => answerClientError(err, socket, SERVICE_LIMITS.requestTimeoutMs),
   });
 
   // JSON only: a text/plain body is what a cross-origin page may send without a CORS preflight.

@@ -3,6 +3,8 @@
  *   { error: CODE, message, issues: [{ path, message[, limit] }], version[, inputHash][, limit] }
  * with the status fixed by the code. Nothing else (no stack, no framework wording) leaves the server.
  */
+import { maxHeaderSize, STATUS_CODES } from 'node:http';
+import type { Socket } from 'node:net';
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
 import { VERSION } from '../src/version.js';
 
@@ -10,13 +12,16 @@ export const ERRORS = {
   invalid_scenario: { status: 400, message: 'the scenario is invalid' },
   invalid_request: { status: 400, message: 'the request is invalid' },
   invalid_json: { status: 400, message: 'the body is not valid JSON' },
+  invalid_http: { status: 400, message: 'the request is not valid HTTP' },
   not_found: { status: 404, message: 'nothing here' },
   unknown_example: { status: 404, message: 'no example by that name' },
   method_not_allowed: { status: 405, message: 'the method is not allowed on this route' },
   not_acceptable: { status: 406, message: 'the answer is not available in the format asked for' },
   over_limit: { status: 413, message: 'the request asks for more work than one request may' },
   body_too_large: { status: 413, message: 'the request body is over the size limit' },
+  request_timeout: { status: 408, message: 'the request did not arrive in time' },
   unsupported_media_type: { status: 415, message: 'the body must be JSON (Content-Type: application/json)' },
+  headers_too_large: { status: 431, message: 'the request headers are over the size limit' },
   cors_forbidden: { status: 403, message: 'the origin is not on the allow-list' },
   internal: { status: 500, message: 'internal error; the answer could not be computed' },
 } as const;
@@ -36,7 +41,7 @@ export interface ErrorBody {
   issues: ServiceIssue[];
   version: string;
   inputHash?: string;
-  /** The limit that was exceeded (413 only). */
+  /** The limit that was exceeded (413, and 431 / 408 for the HTTP parser's limits). */
   limit?: string;
 }
 
@@ -92,4 +97,25 @@ export function frameworkError(error: FastifyError, request: FastifyRequest, bod
     return { code: 'not_found', issues: [{ path: 'url', message: `${JSON.stringify(request.url.slice(0, 200))} is not here` }] };
   }
   return { code: 'internal', issues: [{ path: '(server)', message: 'could not compute the answer' }] };
+}
+
+/**
+ * Errors that Node's HTTP parser raises before fastify sees a request (malformed HTTP, headers over
+ * the size limit, a request that does not arrive within the timeout), answered in the catalogue's
+ * shape on the raw socket, which is then closed. A reset connection gets nothing.
+ */
+export function answerClientError(err: NodeJS.ErrnoException, socket: Socket, requestTimeoutMs: number): void {
+  if (err.code === 'ECONNRESET' || socket.destroyed) return;
+  const [code, issue]: [ErrorCode, ServiceIssue] =
+    err.code === 'HPE_HEADER_OVERFLOW'
+      ? ['headers_too_large', { path: '(headers)', message: `are over the limit of ${maxHeaderSize} bytes`, limit: 'headerBytes' }]
+      : err.code === 'ERR_HTTP_REQUEST_TIMEOUT'
+        ? ['request_timeout', { path: '(request)', message: `did not arrive within ${requestTimeoutMs / 1000} s`, limit: 'requestTimeout' }]
+        : ['invalid_http', { path: '(request)', message: `is not valid HTTP/1.1 (${err.code ?? 'parse error'})` }];
+  const status = ERRORS[code].status;
+  const body = JSON.stringify(errorBody(code, [issue]));
+  if (socket.writable) {
+    socket.write(`HTTP/1.1 ${status} ${STATUS_CODES[status] ?? ''}\r\nContent-Type: application/json; charset=utf-8\r\nContent-Length: ${Buffer.byteLength(body)}\r\nConnection: close\r\n\r\n${body}`);
+  }
+  socket.destroy();
 }
