@@ -9,7 +9,7 @@
  */
 import type { FastifyInstance, FastifyPluginAsync, FastifyReply, FastifyRequest } from 'fastify';
 import { z } from 'zod';
-import { sendError, type ServiceIssue } from './errors.js';
+import { sendError, type ErrorCode, type ServiceIssue } from './errors.js';
 
 export interface ResponseSpec {
   description: string;
@@ -65,13 +65,15 @@ export function inputIssues(where: 'query' | 'params', error: z.ZodError, input:
 
 const EMPTY = Object.freeze({});
 
-function parseOr<T>(schema: z.ZodType<T> | undefined, where: 'query' | 'params', input: unknown): { ok: true; value: T } | { ok: false; issues: ServiceIssue[] } {
+function parseOr<T>(schema: z.ZodType<T> | undefined, where: 'query' | 'params', input: unknown): { ok: true; value: T } | { ok: false; code?: ErrorCode; issues: ServiceIssue[] } {
   if (!schema) {
-    // A route without parameters refuses any, as the others refuse unknown ones (`?format=csv` on
-    // a JSON-only answer would otherwise be ignored without a word).
-    const keys = input !== null && typeof input === 'object' ? Object.keys(input) : [];
+    // A route without parameters refuses any, as the others refuse unknown ones; `format` is known
+    // everywhere, and a JSON-only answer asked for in another format is 406 rather than ignored.
+    const q = (input !== null && typeof input === 'object' ? input : {}) as Record<string, unknown>;
+    const keys = Object.keys(q).filter((k) => !(k === 'format' && q[k] === 'json'));
     if (keys.length === 0) return { ok: true, value: EMPTY as T };
-    return { ok: false, issues: keys.map((k) => ({ path: `${where}.${k}`, message: k === 'format' ? 'is not a parameter of this route: it answers JSON only' : 'is not a parameter of this route' })) };
+    const issues = keys.map((k) => ({ path: `${where}.${k}`, message: k === 'format' ? `${show(String(q.format))} is not available here; this route answers JSON only` : 'is not a parameter of this route' }));
+    return { ok: false, ...(keys.length === 1 && keys[0] === 'format' ? { code: 'not_acceptable' as const } : {}), issues };
   }
   const r = schema.safeParse(input ?? {});
   return r.success ? { ok: true, value: r.data } : { ok: false, issues: inputIssues(where, r.error, input) };
@@ -87,7 +89,7 @@ export function routesPlugin(routes: readonly AnyRoute[]): FastifyPluginAsync {
         handler(request, reply) {
           const q = parseOr(spec.query, 'query', request.query);
           if (!q.ok) {
-            sendError(reply, 'invalid_request', q.issues);
+            sendError(reply, q.code ?? 'invalid_request', q.issues);
             return;
           }
           const p = parseOr(spec.params, 'params', request.params);

@@ -451,19 +451,21 @@ describe('GET /api/v1/examples', () => {
     });
   });
 
-  it('refuses query parameters on routes that take none, as the others do (docs/service.md, Formats)', async () => {
+  it('refuses query parameters on routes that take none, as the others do; another format than JSON there is 406 (docs/service.md, Formats)', async () => {
     for (const url of ['/api/v1/examples?format=csv', '/api/v1/examples/fly-sensing?format=csv', '/api/v1/openapi.json?format=csv', '/health?format=csv']) {
       const r = await app.inject({ method: 'GET', url });
-      expect(r.statusCode, url).toBe(400);
+      expect(r.statusCode, url).toBe(406);
       expect(r.json()).toEqual({
-        error: 'invalid_request',
-        message: 'the request is invalid',
-        issues: [{ path: 'query.format', message: 'is not a parameter of this route: it answers JSON only' }],
+        error: 'not_acceptable',
+        message: 'the answer is not available in the format asked for',
+        issues: [{ path: 'query.format', message: "'csv' is not available here; this route answers JSON only" }],
         version: PKG_VERSION,
       });
     }
-    const typo = await app.inject({ method: 'GET', url: '/api/v1/examples?name=fly-sensing&x=1' });
-    expect(typo.json()).toMatchObject({ issues: [{ path: 'query.name', message: 'is not a parameter of this route' }, { path: 'query.x', message: 'is not a parameter of this route' }] });
+    expect((await app.inject({ method: 'GET', url: '/api/v1/examples?format=json' })).statusCode).toBe(200);
+    const typo = await app.inject({ method: 'GET', url: '/api/v1/examples?name=fly-sensing&x=1&format=csv' });
+    expect(typo.statusCode).toBe(400);
+    expect(typo.json()).toMatchObject({ error: 'invalid_request', issues: [{ path: 'query.name', message: 'is not a parameter of this route' }, { path: 'query.x', message: 'is not a parameter of this route' }, { path: 'query.format', message: "'csv' is not available here; this route answers JSON only" }] });
   });
 });
 
