@@ -476,8 +476,8 @@ function lineValue(o: LineOutput, pc: number, qc: number): number {
 
 const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
-/** The first of the numbers that is not finite (a line's p, q and value), or undefined. */
-const notFinite = (...xs: number[]): number | undefined => xs.find((x) => !Number.isFinite(x));
+/** The first of a line's p, q and value that is not finite, or undefined (no allocation: the sweep's inner loop). */
+const notFinite = (p: number, q: number, v: number): number | undefined => (!Number.isFinite(p) ? p : !Number.isFinite(q) ? q : !Number.isFinite(v) ? v : undefined);
 
 /**
  * The refusal of a grid point whose line value overflowed double precision (see finite.ts), the
