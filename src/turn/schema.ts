@@ -30,6 +30,9 @@ const unitScale = (u: unknown, dim: DimensionName): number | undefined => {
   return r.ok ? r.value : undefined;
 };
 
+/** Closest spacing of a rate trace's samples (s). */
+const MIN_SPACING = 1e-9;
+
 /** A measured rate trace; times strictly increasing, one rate per time, at least two points. */
 const samplesTerm = z
   .strictObject({
@@ -60,6 +63,15 @@ const samplesTerm = z
         return z.NEVER;
       }
     }
+    // The spline divides by each spacing: spacings below any recording's (under a nanosecond) would
+    // make rate steps of 1e200 rad/s² and beyond, so they are refused rather than left to overflow.
+    for (let i = 1; i < s.time.length; i++) {
+      const gap = ((s.time[i] as number) - (s.time[i - 1] as number)) * ts;
+      if (!(gap >= MIN_SPACING)) {
+        ctx.addIssue({ code: 'custom', path: ['samples', 'time', i], message: `${s.time[i]} is only ${gap.toPrecision(3)} s after ${s.time[i - 1]}; expected samples at least 1 ns apart` });
+        return z.NEVER;
+      }
+    }
     return { kind: 'samples' as const, time: s.time.map((t) => t * ts), rate: s.rate.map((r) => r * rs) };
   });
 
@@ -71,7 +83,10 @@ const pulseTerm = z
   .strictObject({
     pulse: z.strictObject({
       peak: quantity('angularRate'),
-      duration: quantity('time', 'positive', 'a pulse needs a duration such as \'60 ms\''),
+      duration: quantity('time', 'positive', 'a pulse needs a duration such as \'60 ms\'').superRefine((d, ctx) => {
+        // Its Ω̇ peaks at πP/D: below a nanosecond that heads for overflow, and no body turns so.
+        if (d < MIN_SPACING) ctx.addIssue({ code: 'custom', message: `${d} s is shorter than a nanosecond; expected a pulse of at least 1 ns` });
+      }),
       start: quantity('time').default(0),
     }),
   })

@@ -39,6 +39,21 @@ describe('turn(doc) refuses bad input clearly', () => {
     expect(i).toEqual({ path: 'body.maneuver.yaw.pulse.duration', message: "'0 ms' must be greater than zero; a pulse needs a duration such as '60 ms'" });
   });
 
+  it('refuses trace samples closer than a nanosecond and pulses shorter than one (they would overflow: found by fuzzing)', () => {
+    expect(issues({ organ, body: { maneuver: { duration: '0.2 s', yaw: { samples: { time: [0, 1e-300, 0.1], rate: [0, 1000, 0] } } } } })).toEqual([
+      { path: 'body.maneuver.yaw.samples.time[1]', message: '1e-300 is only 1.00e-300 s after 0; expected samples at least 1 ns apart' },
+    ]);
+    expect(issues({ organ, body: { maneuver: { duration: '0.2 s', yaw: { samples: { time: [0, 0.5e-3], timeUnit: 'us', rate: [0, 1] } } } } })).toEqual([
+      { path: 'body.maneuver.yaw.samples.time[1]', message: '0.0005 is only 5.00e-10 s after 0; expected samples at least 1 ns apart' },
+    ]);
+    expect(issues({ organ, body: { maneuver: { duration: '0.2 s', roll: { pulse: { peak: 1000, duration: 3e-323 } } } } })).toEqual([
+      { path: 'body.maneuver.roll.pulse.duration', message: '3e-323 s is shorter than a nanosecond; expected a pulse of at least 1 ns' },
+    ]);
+    // At the floor, both are accepted and the answer is finite.
+    expect(turn({ organ, body: { maneuver: { duration: '20 ms', yaw: { samples: { time: [0, 1e-9, 0.01], rate: [0, 1, 0] } } } } }).ok).toBe(true);
+    expect(turn({ organ, body: { maneuver: { duration: '20 ms', yaw: { pulse: { peak: 1, duration: 1e-9, start: '5 ms' } } } } }).ok).toBe(true);
+  });
+
   it('refuses a maneuver longer than the sample limit, with the limit named (HTTP 413, exit code 3)', () => {
     const [i] = issues({ organ, body: { maneuver: { duration: '2 s', yaw: '100 deg/s' } }, sampling: { pointsPerBeat: 256 } });
     expect(i?.path).toBe('body.maneuver.duration');
