@@ -27,6 +27,12 @@ export const stamp = {
   inputHash: z.string().meta({ description: 'first 16 hex digits of SHA-256 over the request document in canonical JSON (keys sorted); also in the X-Input-Hash header' }),
 };
 
+/** The refusals of a route that takes no query parameters (route.ts). */
+export const paramlessResponses = {
+  400: { description: 'a query parameter: this route takes none but format=json', ref: 'Error' },
+  406: { description: 'format other than json: this route answers JSON only', ref: 'Error' },
+} as const;
+
 export const errorResponses = {
   400: { description: 'invalid request: issues name each field, its value and what was expected', ref: 'Error' },
   413: { description: 'over a limit on work per request (the limit is named) or over the body size limit', ref: 'Error' },

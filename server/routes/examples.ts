@@ -6,6 +6,7 @@ import { VERSION } from '../../src/version.js';
 import { sendError } from '../errors.js';
 import { inputHash } from '../hash.js';
 import { defineRoute, type AnyRoute } from '../route.js';
+import { paramlessResponses } from '../schemas.js';
 
 export interface Example {
   name: string;
@@ -57,7 +58,7 @@ export function exampleRoutes(examples: readonly Example[]): AnyRoute[] {
       operationId: 'listExamples',
       summary: 'The shipped example scenarios: name and description',
       tags: ['examples'],
-      responses: { 200: { description: 'the list', schema: ExampleListSchema } },
+      responses: { 200: { description: 'the list', schema: ExampleListSchema }, ...paramlessResponses },
       handler(_request, reply) {
         reply.send(list);
       },
@@ -72,6 +73,8 @@ export function exampleRoutes(examples: readonly Example[]): AnyRoute[] {
       params: z.strictObject({ name: z.string().regex(NAME, { error: 'is not an example name; expected letters, digits, - and _' }).meta({ description: 'the example name, e.g. fly-tilted-stroke' }) }),
       responses: {
         200: { description: 'the scenario document', ref: 'Scenario' },
+        ...paramlessResponses,
+        400: { description: 'a malformed example name, or a query parameter (this route takes none but format=json)', ref: 'Error' },
         404: { description: 'no example by that name', ref: 'Error' },
       },
       handler(_request, reply, { params }) {

@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { VERSION } from '../../src/version.js';
 import { defineRoute } from '../route.js';
+import { paramlessResponses } from '../schemas.js';
 
 export const HealthSchema = z.strictObject({ status: z.literal('ok'), version: z.string() });
 
@@ -11,7 +12,7 @@ export const healthRoute = defineRoute({
   operationId: 'health',
   summary: 'The service is up',
   tags: ['service'],
-  responses: { 200: { description: 'up', schema: HealthSchema } },
+  responses: { 200: { description: 'up', schema: HealthSchema }, ...paramlessResponses },
   handler(_request, reply) {
     reply.send({ status: 'ok', version: VERSION });
   },

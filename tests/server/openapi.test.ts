@@ -156,6 +156,13 @@ describe('GET /api/v1/openapi.json', () => {
     for (const required of ['POST /api/v1/forces', 'POST /api/v1/sensing', 'POST /api/v1/turn', 'POST /api/v1/sweep', 'GET /api/v1/examples', 'GET /api/v1/examples/{name}', 'GET /api/v1/openapi.json', 'GET /health']) expect(documented).toContain(required);
   });
 
+  it('documents the refusals of the routes without query parameters: 400 for any but format=json, 406 for another format', () => {
+    const paths = doc.paths as Record<string, Record<string, { responses: Record<string, unknown> }>>;
+    for (const p of ['/health', '/api/v1/examples', '/api/v1/examples/{name}', '/api/v1/openapi.json']) {
+      expect(Object.keys(paths[p]?.get?.responses ?? {}).sort(), p).toEqual(expect.arrayContaining(['200', '400', '406']));
+    }
+  });
+
   it('documents each request body with the very zod schema that validates it (request side)', () => {
     const schemas = (doc.components as { schemas: Json }).schemas;
     const opts = { target: 'openapi-3.0', io: 'input', unrepresentable: 'any' } as const;
