@@ -1,6 +1,7 @@
 /** Shared helpers for the service tests. */
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
+import { connect } from 'node:net';
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll } from 'vitest';
 import { buildApp } from '../../server/app.js';
@@ -45,4 +46,24 @@ export function useApp(): () => FastifyInstance {
     if (!app) throw new Error('the app is built in beforeAll; use it inside a test');
     return app;
   };
+}
+
+/**
+ * Send raw bytes to a server on 127.0.0.1:port and read everything it writes until it closes the
+ * connection: the status, the header block and the body (for what app.inject cannot reach: the
+ * HTTP parser, the socket).
+ */
+export function rawRequest(port: number, bytes: string): Promise<{ status: number; headers: string; body: string }> {
+  return new Promise((resolve, reject) => {
+    const socket = connect(port, '127.0.0.1');
+    let data = '';
+    socket.on('data', (d: Buffer) => (data += d.toString()));
+    // A server that refuses early may reset the connection while the rest is still being written.
+    socket.on('error', (e) => (data ? undefined : reject(e)));
+    socket.on('close', () => {
+      const [head = '', ...rest] = data.split('\r\n\r\n');
+      resolve({ status: Number(/^HTTP\/1\.1 (\d{3})/.exec(head)?.[1] ?? 0), headers: head, body: rest.join('\r\n\r\n') });
+    });
+    socket.write(bytes);
+  });
 }

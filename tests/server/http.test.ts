@@ -2,12 +2,11 @@
  * What Node's HTTP parser refuses before fastify sees a request (malformed HTTP, headers over the
  * size limit) is answered in the catalogue's shape too, over a real socket.
  */
-import { connect } from 'node:net';
 import type { AddressInfo } from 'node:net';
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../server/app.js';
-import { PKG_VERSION } from './helpers.js';
+import { PKG_VERSION, rawRequest } from './helpers.js';
 
 let app: FastifyInstance;
 let port = 0;
@@ -20,21 +19,7 @@ afterAll(async () => {
   await app.close();
 });
 
-/** Send raw bytes; resolve with everything the server writes before it closes the connection. */
-function raw(bytes: string): Promise<{ status: number; headers: string; body: string }> {
-  return new Promise((resolve, reject) => {
-    const socket = connect(port, '127.0.0.1');
-    let got = '';
-    socket.setEncoding('utf8');
-    socket.on('data', (d: string) => (got += d));
-    socket.on('error', reject);
-    socket.on('close', () => {
-      const [head = '', body = ''] = got.split('\r\n\r\n');
-      resolve({ status: Number(head.split(' ')[1]), headers: head, body });
-    });
-    socket.end(bytes);
-  });
-}
+const raw = (bytes: string) => rawRequest(port, bytes);
 
 describe('refusals of the HTTP parser', () => {
   it('answers headers over the size limit with 431 in the error shape', async () => {

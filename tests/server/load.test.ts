@@ -4,14 +4,13 @@
  * path-traversal requests (not normalised by any client) answered 404; a body over the limit 413.
  * Speed targets are checked in `npm run bench`, not here.
  */
-import { connect } from 'node:net';
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
 import autocannon from 'autocannon';
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../server/app.js';
-import { exampleText, PKG_VERSION } from './helpers.js';
+import { exampleText, PKG_VERSION, rawRequest } from './helpers.js';
 
 setFlagsFromString('--expose-gc');
 const gc = runInNewContext('gc') as () => void;
@@ -28,22 +27,7 @@ afterAll(async () => {
   await app.close();
 });
 
-/** Send raw bytes and read the status line and body of the answer. */
-function raw(request: string): Promise<{ status: number; body: string }> {
-  return new Promise((resolve, reject) => {
-    const s = connect(port, '127.0.0.1');
-    let data = '';
-    s.on('data', (d) => {
-      data += d.toString();
-    });
-    s.on('end', () => {
-      const status = Number(/^HTTP\/1\.1 (\d{3})/.exec(data)?.[1] ?? 0);
-      resolve({ status, body: data.split('\r\n\r\n').slice(1).join('\r\n\r\n') });
-    });
-    s.on('error', reject);
-    s.write(request);
-  });
-}
+const raw = (request: string) => rawRequest(port, request);
 
 const heapAfterGc = (): number => {
   gc();
