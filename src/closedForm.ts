@@ -40,26 +40,41 @@ function workspace(L: number): Workspace {
   return ws;
 }
 
-/** dst = s · cos u · src (orders shift by ±1; the top order is truncated). */
+/**
+ * dst = s · cos u · src (orders shift by ±1; the top order is truncated). With P_L = Q_L = 0 and
+ * Q_0 = 0: R_0 = P_1/2, R_1 = P_0 + P_2/2, R_k = (P_{k−1} + P_{k+1})/2; Q'_0 = 0, Q'_1 = Q_2/2,
+ * Q'_k = (Q_{k−1} + Q_{k+1})/2. The ends are written outside the loop (L ≥ 3 here: K + 2 orders).
+ */
 function mulCos(b: Float64Array, L: number, src: number, dst: number, s: number): void {
   const P = src, Q = src + L, RP = dst, RQ = dst + L;
-  for (let k = 0; k < L; k++) {
-    const pm = k >= 1 ? (b[P + k - 1] as number) : 0, pp = k + 1 < L ? (b[P + k + 1] as number) : 0;
-    const qm = k >= 1 ? (b[Q + k - 1] as number) : 0, qp = k + 1 < L ? (b[Q + k + 1] as number) : 0;
-    b[RP + k] = s * (k === 0 ? pp / 2 : k === 1 ? (b[P] as number) + pp / 2 : (pm + pp) / 2);
-    b[RQ + k] = s * (k === 0 ? 0 : k === 1 ? qp / 2 : (qm + qp) / 2);
+  b[RP] = s * ((b[P + 1] as number) / 2);
+  b[RQ] = 0;
+  b[RP + 1] = s * ((b[P] as number) + (b[P + 2] as number) / 2);
+  b[RQ + 1] = s * ((b[Q + 2] as number) / 2);
+  for (let k = 2; k < L - 1; k++) {
+    b[RP + k] = s * (((b[P + k - 1] as number) + (b[P + k + 1] as number)) / 2);
+    b[RQ + k] = s * (((b[Q + k - 1] as number) + (b[Q + k + 1] as number)) / 2);
   }
+  b[RP + L - 1] = s * (((b[P + L - 2] as number) + 0) / 2);
+  b[RQ + L - 1] = s * (((b[Q + L - 2] as number) + 0) / 2);
 }
 
-/** dst = s · sin u · src. */
+/**
+ * dst = s · sin u · src: R_0 = Q_1/2, R_1 = Q_2/2, R_k = (Q_{k+1} − Q_{k−1})/2; Q'_0 = 0,
+ * Q'_1 = P_0 − P_2/2, Q'_k = (P_{k−1} − P_{k+1})/2 (same ends as mulCos).
+ */
 function mulSin(b: Float64Array, L: number, src: number, dst: number, s: number): void {
   const P = src, Q = src + L, RP = dst, RQ = dst + L;
-  for (let k = 0; k < L; k++) {
-    const pm = k >= 1 ? (b[P + k - 1] as number) : 0, pp = k + 1 < L ? (b[P + k + 1] as number) : 0;
-    const qm = k >= 1 ? (b[Q + k - 1] as number) : 0, qp = k + 1 < L ? (b[Q + k + 1] as number) : 0;
-    b[RP + k] = s * (k === 0 ? (L > 1 ? (b[Q + 1] as number) : 0) / 2 : k === 1 ? qp / 2 : (qp - qm) / 2);
-    b[RQ + k] = s * (k === 0 ? 0 : k === 1 ? (b[P] as number) - pp / 2 : (pm - pp) / 2);
+  b[RP] = s * ((b[Q + 1] as number) / 2);
+  b[RQ] = 0;
+  b[RP + 1] = s * ((b[Q + 2] as number) / 2);
+  b[RQ + 1] = s * ((b[P] as number) - (b[P + 2] as number) / 2);
+  for (let k = 2; k < L - 1; k++) {
+    b[RP + k] = s * (((b[Q + k + 1] as number) - (b[Q + k - 1] as number)) / 2);
+    b[RQ + k] = s * (((b[P + k - 1] as number) - (b[P + k + 1] as number)) / 2);
   }
+  b[RP + L - 1] = s * ((0 - (b[Q + L - 2] as number)) / 2);
+  b[RQ + L - 1] = s * (((b[P + L - 2] as number) - 0) / 2);
 }
 
 const G_ONE = 0, G_RATE = 1, G_ACC = 2, G_RATE2 = 3;
@@ -157,19 +172,26 @@ function addScaled(pq: Float64Array, at: number, orders: number, b: Float64Array
   }
 }
 
-/** Shift every line by a time advance δ/ω: f(u) = f₀(u + δ). `cs` holds cos kδ, sin kδ (scratch). */
-function advance(pq: Float64Array, orders: number, delta: number, cs: Float64Array): void {
+/**
+ * Shift the lines of the components flagged in `touched` by a time advance δ/ω: f(u) = f₀(u + δ)
+ * (the others are zero; the total is summed afterwards). `cs` holds cos kδ, sin kδ (scratch).
+ */
+function advance(pq: Float64Array, orders: number, delta: number, cs: Float64Array, touched: number): void {
   if (delta === 0) return;
   for (let k = 1; k < orders; k++) {
     cs[2 * k] = Math.cos(k * delta);
     cs[2 * k + 1] = Math.sin(k * delta);
   }
-  for (let base = 0; base < pq.length; base += 2 * orders) {
-    for (let k = 1; k < orders; k++) {
-      const c = cs[2 * k] as number, s = cs[2 * k + 1] as number;
-      const p = pq[base + 2 * k] as number, q = pq[base + 2 * k + 1] as number;
-      pq[base + 2 * k] = p * c + q * s;
-      pq[base + 2 * k + 1] = -p * s + q * c;
+  const span = N_AXES * orders * 2;
+  for (let c = 0; c < TOTAL; c++) {
+    if ((touched & (1 << c)) === 0) continue;
+    for (let base = c * span; base < (c + 1) * span; base += 2 * orders) {
+      for (let k = 1; k < orders; k++) {
+        const co = cs[2 * k] as number, si = cs[2 * k + 1] as number;
+        const p = pq[base + 2 * k] as number, q = pq[base + 2 * k + 1] as number;
+        pq[base + 2 * k] = p * co + q * si;
+        pq[base + 2 * k + 1] = -p * si + q * co;
+      }
     }
   }
 }
@@ -263,7 +285,7 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
     const wa = V0 * a0x + V1 * a0y + V2 * a0z, wt = V0 * t0x + V1 * t0y + V2 * t0z, wn = V0 * n[0] + V1 * n[1] + V2 * n[2];
     addTerm(pq, (TERM_C[i] as number) * N_AXES * step, K1, b, L, base, sc, ss, V0, V1, V2, wa, wt, wn);
   }
-  advance(pq, K1, delta, W.cs);
+  advance(pq, K1, delta, W.cs, touched);
   sumTotal(pq, K1, touched);
   return out;
 }
