@@ -14,10 +14,13 @@
  *
  * The lock-in of a channel is phase-locked to its rate-induced line: the unit-rate lines
  * c_i = T Z(coriolis_i) (i = roll, pitch, yaw) are, for a sine stroke, all at one phase (up to
- * sign); in general the reference ψ is the phase that carries most of them (the principal
- * direction of [Re c, Im c], kept in (−π/2, π/2]). The scale factor is the in-phase output per
- * unit rate K_i = Re(c_i e^{−iψ}) (signed), so the mirror organ's roll and yaw outputs come with
- * the opposite sign and pitch with the same.
+ * sign); in general the reference ψ is the phase that carries most of them: the principal
+ * direction of the quasi-static lines g·Z(coriolis_i) (g the axis's real gain), kept in
+ * (−π/2, π/2], plus, on a channel through the sense mode, that mode's phase lag arg H(kω) ∈ (−π, 0]
+ * (a reference that follows the drive and compensates the lag, so the scale factor keeps its sign
+ * and varies smoothly across mode matching; ψ is then wrapped to (−π, π]). The scale factor is the
+ * in-phase output per unit rate K_i = Re(c_i e^{−iψ}) (signed), so the mirror organ's roll and yaw
+ * outputs come with the opposite sign and pitch with the same.
  */
 import type { OrganLines } from './lines.js';
 import { axisAt, BLOCK, unitAt } from './lines.js';
@@ -95,20 +98,28 @@ export function organChannels(plan: ReadPlan, L: OrganLines, out?: Float64Array)
       ch[at + CH.ti] = ti;
       ch[at + CH.thermal] = thermal;
       ch[at + CH.psd] = thermal + plan.readoutPsd;
-      // Unit-rate lines c_i = T·Z(coriolis_i), kept in the K and Kq slots until ψ is known.
+      // Unit-rate lines c_i = T·Z(coriolis_i), kept in the K and Kq slots until ψ is known. The
+      // reference is the principal phase of the quasi-static lines g·Z (folded), plus the sense
+      // mode's lag on a channel through it: continuous across mode matching.
+      const g = axis.gain;
       let uu = 0, vv = 0, uv = 0;
       for (let i = 0; i < 3; i++) {
         const z = unitAt(L, BLOCK.coriolis, i, b, k);
         const p = d[z] as number, q = d[z + 1] as number;
-        const u = tr * p + ti * q, v = ti * p - tr * q;
-        ch[at + CH.K + i] = u;
-        ch[at + CH.Kq + i] = v;
+        ch[at + CH.K + i] = tr * p + ti * q;
+        ch[at + CH.Kq + i] = ti * p - tr * q;
+        const u = g * p, v = -g * q;
         uu += u * u;
         vv += v * v;
         uv += u * v;
       }
       let psi = 0.5 * Math.atan2(2 * uv, uu - vv);
       if (psi < -HALF_PI + 1e-9 || psi > HALF_PI - 1e-9) psi = HALF_PI;
+      if (thermalHere) {
+        const sg = g < 0 ? -1 : 1;
+        psi += Math.atan2(sg * ti, sg * tr); // arg of the sense-mode transfer, in (−π, 0]
+        if (psi <= -Math.PI) psi += 2 * Math.PI;
+      }
       ch[at + CH.psi] = psi;
       const cp = Math.cos(psi), sp = Math.sin(psi);
       for (let i = 0; i < 3; i++) {

@@ -52,7 +52,7 @@ export const SENSING_UNITS = {
 export const CONVENTIONS = {
   psd: 'Every noise density is one-sided: S(f) over f ≥ 0, so that the variance in a band B is S·B; a density is √S.',
   amplitude: 'A line is A cos(kωt + ψ), t = 0 at the waveform origin; A is the single-sided peak amplitude (not RMS, not peak-to-peak).',
-  lockIn: 'The lock-in of a channel multiplies by 2cos(kωt + ψ_ref) (in-phase) and −2sin(kωt + ψ_ref) (quadrature) and averages over the integration; a line A cos(kωt + ψ) reads I = A cos(ψ − ψ_ref), Q = A sin(ψ − ψ_ref). ψ_ref (channel.referencePhase) is locked to the rate-induced line.',
+  lockIn: 'The lock-in of a channel multiplies by 2cos(kωt + ψ_ref) (in-phase) and −2sin(kωt + ψ_ref) (quadrature) and averages over the integration; a line A cos(kωt + ψ) reads I = A cos(ψ − ψ_ref), Q = A sin(ψ − ψ_ref). ψ_ref (channel.referencePhase) is locked to the rate-induced line; through a sense mode it includes the phase lag of that mode, so the scale factor keeps its sign across mode matching.',
   outputNoise: 'White noise of one-sided density √S gives each lock-in output a spread σ = √(S/T) over the integration time T.',
   scaleFactor: 'K = ∂I/∂Ω: the in-phase output per unit body rate about the axis, at zero rate (the Coriolis line is linear in Ω); signed.',
   snr: 'SNR = |K Ω| / σ, an amplitude ratio (not a power ratio), for the scenario\'s rate about that axis.',

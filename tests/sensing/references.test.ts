@@ -102,6 +102,47 @@ describe('sensing(mems): the sense-mode block', () => {
   });
 });
 
+describe('scale factor across mode matching', () => {
+  // A lock-in whose reference follows the drive and compensates the sense mode's lag reads
+  // |H(ω)| times the Coriolis force per unit rate: K = ±2 m x ω · |H(ω)|, with
+  // |H(ω)| = 1 / (m_s √((ω_s² − ω²)² + (ω ω_s / Q)²)) for the driven damped oscillator (any vibrations
+  // text, e.g. Thomson, Theory of Vibration with Applications, ch. 3; from memory) and the Coriolis
+  // force −2 m Ω × v on the proof mass. Its sign must not depend on which side of the drive the
+  // sense mode sits, nor flip at exact matching.
+  const m = 4e-9, x = 4e-6, w = 2 * Math.PI * 15e3, Q = 800;
+  const at = (fs: number) => {
+    const doc = withFields(example('mems-sensing'), { organ: { ...(example('mems-sensing').organ as object), senseMode: { frequency: fs, quality: Q, mass: '4 ug' } } });
+    return answerOf(doc);
+  };
+  const splits = [-600, -150, -10, 0, 10, 150, 600]; // sense mode minus drive (Hz)
+
+  it('K = ±2 m x ω |H(ω)| with one sign on each organ for every split, exact matching included', () => {
+    const signs = new Set<number>();
+    for (const d of splits) {
+      const ws = 2 * Math.PI * (15e3 + d);
+      const H = 1 / (m * Math.hypot(ws * ws - w * w, (w * ws) / Q));
+      const a = at(15e3 + d);
+      const right = a.organs[0]?.axes.yaw.scaleFactor as number, left = a.organs[1]?.axes.yaw.scaleFactor as number;
+      expect(Math.abs(right) / (2 * m * x * w * H), `split ${d} Hz`).toBeCloseTo(1, 10);
+      expect(left, `split ${d} Hz: the mirror organ reads the opposite sign`).toBeCloseTo(-right, 22);
+      signs.add(Math.sign(right));
+    }
+    expect([...signs]).toHaveLength(1);
+  });
+
+  it('the reference phase is the quasi-static one plus the lag arg H(ω) = −atan2(ω ω_s/Q, ω_s² − ω²), wrapped to (−π, π]', () => {
+    const base = (d: number) => {
+      const ws = 2 * Math.PI * (15e3 + d);
+      const psi = at(15e3 + d).organs[0]?.axes.yaw.channel?.referencePhase as number;
+      expect(psi).toBeGreaterThan(-Math.PI);
+      expect(psi).toBeLessThanOrEqual(Math.PI);
+      return Math.atan2(Math.sin(psi + Math.atan2((w * ws) / Q, ws * ws - w * w)), Math.cos(psi + Math.atan2((w * ws) / Q, ws * ws - w * w)));
+    };
+    const psi0 = base(splits[0] as number);
+    for (const d of splits) expect(Math.cos(base(d) - psi0), `split ${d} Hz`).toBeCloseTo(1, 12);
+  });
+});
+
 describe('Brownian noise-equivalent rate of a driven proof mass', () => {
   // Standard expression for the mechanical-thermal (Brownian) noise floor of a vibratory gyroscope
   // (Leland 2005, IEEE Sensors J. 5(3), 493–500; the form below from memory): the thermal force
