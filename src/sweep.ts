@@ -134,13 +134,15 @@ export const SweepRequestSchema = z.strictObject(
   {
     scenario: ScenarioDocumentSchema.nonoptional({ error: 'is required; expected a scenario document, as for POST /api/v1/forces' }),
     vary: z
-      .array(VarySchema, { error: (iss) => `${show(iss.input)} is not a list of grid axes` })
+      .array(VarySchema, { error: (iss) => (iss.input === undefined ? 'is required; expected a list of one or two grid axes' : `${show(iss.input)} is not a list of grid axes`) })
       .min(1, 'is empty; expected one or two grid axes')
       .max(2, 'has more than two grid axes; expected one or two'),
     outputs: z
-      .array(OutputSchema, { error: (iss) => `${show(iss.input)} is not a list of outputs` })
+      .array(OutputSchema, { error: (iss) => (iss.input === undefined ? 'is required; expected a list of outputs (harmonic lines or sensing figures)' : `${show(iss.input)} is not a list of outputs`) })
       .min(1, 'is empty; expected at least one output')
       .max(SWEEP_LIMITS.sweepOutputs, `has more than ${SWEEP_LIMITS.sweepOutputs} outputs`),
+    name: z.string().max(200).optional().meta({ description: 'free text for the author (not used in the computation)' }),
+    description: z.string().max(2000).optional().meta({ description: 'free text for the author (not used in the computation)' }),
   },
   { error: (iss) => (iss.code === 'invalid_type' ? `${show(iss.input)} is not a sweep request; expected { "scenario", "vary", "outputs" }` : undefined) },
 );
@@ -359,7 +361,14 @@ const prefixed = (issues: readonly { path: string; message: string; limit?: stri
 
 /** Validate the request and lay out the grid and the outputs. */
 function plan(req: SweepRequest, issues: SweepIssue[]): Plan | undefined {
-  const drive = driveOf(req.scenario);
+  const sc = req.scenario;
+  if (sc === null || typeof sc !== 'object' || Array.isArray(sc)) {
+    // Not an object: no grid point can make it one; refuse it as the scenario routes do.
+    const r = parseScenario(sc);
+    if (!r.ok) issues.push(...prefixed(r.issues, 'scenario'));
+    return undefined;
+  }
+  const drive = driveOf(sc);
   const axes: GridAxis[] = [];
   req.vary.forEach((v, i) => {
     const a = gridAxis(v, `vary[${i}]`, drive, issues);
@@ -396,11 +405,17 @@ function pointValues(axes: readonly GridAxis[], i: number, out: number[]): numbe
 }
 
 /** Run a sweep request (see the module comment). */
+/** An unknown member outside the scenario is checked against the sweep request's reference, not the scenario's. */
+const requestWords = (i: SweepIssue): SweepIssue =>
+  i.path.startsWith('scenario') || !i.message.startsWith('is not a field here')
+    ? i
+    : { ...i, message: 'is not a field here; a sweep request has scenario, vary, outputs, and optionally name and description (docs/service.md, Sweeps)' };
+
 export function sweep(request: unknown, options: SweepOptions = {}): SweepResult {
   const deep = nestingIssues(request, 'sweep');
   if (deep.length > 0) return { ok: false, issues: deep };
   const parsed = SweepRequestSchema.safeParse(request, { error: plainWords });
-  if (!parsed.success) return { ok: false, issues: toIssues(parsed.error) };
+  if (!parsed.success) return { ok: false, issues: toIssues(parsed.error).map(requestWords) };
   const req = parsed.data;
   const issues: SweepIssue[] = [];
   const p = plan(req, issues);

@@ -208,6 +208,12 @@ describe('sweep(request): refusals name the field', () => {
     ]],
     ['a request without a scenario', { vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line] }, [{ path: 'scenario', message: 'is required; expected a scenario document, as for POST /api/v1/forces' }]],
     ['an output line that is not an object', { scenario: fly, vary: [{ field: 'organ.mass', values: [1] }], outputs: [{ line: 7 }, { sensing: 5 }] }, [{ path: 'outputs[0].line', message: '7 is not an object' }, { path: 'outputs[1].sensing', message: '5 is not a string' }]],
+    ['a scenario that is not an object', { scenario: 7, vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line] }, [{ path: 'scenario', message: '7 is not a scenario; expected a JSON object with at least "organ"' }]],
+    ['a request without vary and outputs', { scenario: fly }, [
+      { path: 'vary', message: 'is required; expected a list of one or two grid axes' },
+      { path: 'outputs', message: 'is required; expected a list of outputs (harmonic lines or sensing figures)' },
+    ]],
+    ['an unknown member of the request', { scenario: fly, vary: [{ field: 'body.rate.yaw', values: [1] }], outputs: [line], output: 'csv' }, [{ path: 'output', message: 'is not a field here; a sweep request has scenario, vary, outputs, and optionally name and description (docs/service.md, Sweeps)' }]],
     ['not an object', 'sweep', [{ path: '(document)', message: "'sweep' is not a sweep request; expected { \"scenario\", \"vary\", \"outputs\" }" }]],
   ];
   for (const [what, request, issues] of cases) {
@@ -215,6 +221,11 @@ describe('sweep(request): refusals name the field', () => {
       expect(sweep(request)).toEqual({ ok: false, issues });
     });
   }
+
+  it('accepts a name and a description, which leave the answer as it was', () => {
+    const request = { scenario: fly, vary: [{ field: 'body.rate.yaw', values: [0, 1] }], outputs: [line] };
+    expect(sweep({ ...request, name: 'yaw check', description: 'a note for the author' })).toEqual(sweep(request));
+  });
 });
 
 describe('POST /api/v1/sweep', () => {
