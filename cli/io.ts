@@ -19,8 +19,8 @@ export const processIo: Io = {
 export class UsageError extends Error {}
 
 /** Read and JSON-parse FILE (or standard input for "-"). */
-export function readDocument(file: string | undefined, io: Io): { doc: unknown } | { issues: Issue[] } {
-  if (!file) throw new UsageError('a scenario FILE (or - for standard input) is required');
+export function readDocument(file: string | undefined, io: Io, what = 'scenario'): { doc: unknown } | { issues: Issue[] } {
+  if (!file) throw new UsageError(`a ${what} FILE (or - for standard input) is required`);
   let text: string;
   try {
     text = file === '-' ? io.stdin() : readFileSync(file, 'utf8');
@@ -34,10 +34,13 @@ export function readDocument(file: string | undefined, io: Io): { doc: unknown }
   }
 }
 
+/** An issue as the library reports it (a sweep's may name a sweep limit). */
+type Reported = Omit<Issue, 'limit'> & { limit?: string };
+
 /** Print issues the way the service reports them, and choose the exit code. */
-export function reportIssues(issues: Issue[], io: Io): number {
+export function reportIssues(issues: readonly Reported[], io: Io, what = 'scenario'): number {
   const limit = issues.some((i) => i.limit);
-  io.err(`${limit ? 'over a limit' : 'invalid scenario'}:\n${issues.map((i) => `  ${i.path}: ${i.message}`).join('\n')}\n`);
+  io.err(`${limit ? 'over a limit' : `invalid ${what}`}:\n${issues.map((i) => `  ${i.path}: ${i.message}`).join('\n')}\n`);
   return limit ? EXIT.limit : EXIT.invalid;
 }
 
@@ -69,29 +72,30 @@ export interface Command {
   run: (argv: readonly string[], io: Io) => number;
 }
 
-type Answered<A> = { ok: true; answer: A } | { ok: false; issues: Issue[] };
+type Answered<A> = { ok: true; answer: A } | { ok: false; issues: Reported[] };
 
 /**
- * The shared body of the document commands (forces, sensing, turn): read FILE, compute, print the
- * warnings to standard error and the answer as JSON, or as CSV (`--series` picks the series table
- * where the command has one).
+ * The shared body of the document commands (forces, sensing, turn, sweep): read FILE, compute,
+ * print the warnings to standard error and the answer as JSON, or as CSV (`--series` picks the
+ * series table where the command has one). `what` names the document in refusals.
  */
 export function answerDocument<A extends { warnings: string[] }>(
   argv: readonly string[],
   io: Io,
   compute: (doc: unknown) => Answered<A>,
   csv: { table: (a: A) => string; series?: (a: A) => string },
+  what = 'scenario',
 ): number {
   const flags: Record<string, 'bool' | 'string'> = { format: 'string', compact: 'bool', ...(csv.series ? { series: 'bool' } : {}) };
   const { positional, opts } = parseArgs(argv, flags);
   const format = (opts.format as string | undefined) ?? 'json';
   if (format !== 'json' && format !== 'csv') throw new UsageError(`--format ${format}: expected json or csv`);
   if (opts.series && format !== 'csv') throw new UsageError('--series goes with --format csv');
-  if (positional.length > 1) throw new UsageError(`one scenario FILE at a time; got ${positional.length}: ${positional.join(' ')}`);
-  const read = readDocument(positional[0], io);
-  if ('issues' in read) return reportIssues(read.issues, io);
+  if (positional.length > 1) throw new UsageError(`one ${what} FILE at a time; got ${positional.length}: ${positional.join(' ')}`);
+  const read = readDocument(positional[0], io, what);
+  if ('issues' in read) return reportIssues(read.issues, io, what);
   const r = compute(read.doc);
-  if (!r.ok) return reportIssues(r.issues, io);
+  if (!r.ok) return reportIssues(r.issues, io, what);
   for (const w of r.answer.warnings) io.err(`warning: ${w}\n`);
   if (format === 'csv') io.out(opts.series && csv.series ? csv.series(r.answer) : csv.table(r.answer));
   else io.out(`${JSON.stringify(r.answer, null, opts.compact ? undefined : 2)}\n`);

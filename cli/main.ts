@@ -16,7 +16,7 @@ ${COMMANDS.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`).join('\n')}
   beatforce --version         the version
 
 Quantities are numbers in SI base units or strings with units ('7 ug', '170 Hz', '80 deg').
-Exit codes: 0 done, 1 usage error, 2 invalid scenario, 3 over a limit.
+Exit codes: 0 done, 1 usage error, 2 invalid scenario or sweep request, 3 over a limit.
 Numbers support research and design; they do not certify a navigation or safety sensor.
 `;
 }

@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { COMMANDS } from '../../cli/commands/index.js';
 import type { Io } from '../../cli/io.js';
 import { main } from '../../cli/main.js';
-import { forces } from '../../src/index.js';
+import { forces, sweep, sweepCsv } from '../../src/index.js';
 
 const example = (name: string) => new URL(`../../examples/${name}.json`, import.meta.url).pathname;
 
@@ -87,7 +87,7 @@ describe('beatforce --help and unknown commands', () => {
     const r = cli(['--help']);
     expect(r.code).toBe(0);
     for (const c of COMMANDS) expect(r.out).toContain(`  ${c.name}`);
-    expect(r.out).toMatch(/Exit codes: 0 done, 1 usage error, 2 invalid scenario, 3 over a limit\./);
+    expect(r.out).toMatch(/Exit codes: 0 done, 1 usage error, 2 invalid scenario or sweep request, 3 over a limit\./);
     expect(cli([])).toMatchObject({ code: 1, out: r.out });
   });
 
@@ -139,6 +139,43 @@ describe('beatforce forces: refusals', () => {
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/^invalid scenario:\n {2}\(document\): is not valid JSON: /);
     expect(cli(['forces', '-'], 'not json').code).toBe(2);
+  });
+});
+
+describe('beatforce sweep FILE', () => {
+  const sweepFile = (name: string) => new URL(`../../examples/sweeps/${name}.json`, import.meta.url).pathname;
+  const shipped = ['fly-yaw-rate', 'mems-mode-split'];
+
+  it('prints the JSON answer of the library sweep() and, with --format csv, its table, for every shipped sweep', () => {
+    for (const name of shipped) {
+      const request: unknown = JSON.parse(readFileSync(sweepFile(name), 'utf8'));
+      const lib = sweep(request);
+      if (!lib.ok) throw new Error(`${name}: ${JSON.stringify(lib.issues)}`);
+      const r = cli(['sweep', sweepFile(name)]);
+      expect(r.code, r.err).toBe(0);
+      expect(JSON.parse(r.out)).toEqual(JSON.parse(JSON.stringify(lib.answer)));
+      const c = cli(['sweep', sweepFile(name), '--format', 'csv']);
+      expect(c.code).toBe(0);
+      expect(c.out).toBe(sweepCsv(lib.answer));
+      expect(c.out.split('\r\n')).toHaveLength(lib.answer.points + 2); // header, rows, and the empty string after the last CRLF
+    }
+  });
+
+  it('the shipped sweeps take the methods they describe', () => {
+    expect(JSON.parse(cli(['sweep', sweepFile('fly-yaw-rate')]).out)).toMatchObject({ method: 'rate-polynomial', path: 'closed-form', points: 41 });
+    expect(JSON.parse(cli(['sweep', sweepFile('mems-mode-split')]).out)).toMatchObject({ method: 'per-point', points: 25 });
+  });
+
+  it('refuses an invalid request (exit 2), a grid over the limit (exit 3) and a missing FILE (exit 1), naming the sweep request', () => {
+    const bad = cli(['sweep', '-'], JSON.stringify({ scenario: { organ }, vary: [{ field: 'organ.colour', values: [1] }] }));
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/^invalid sweep request:\n {2}outputs: is required; expected a list of outputs/);
+    const big = cli(['sweep', '-'], JSON.stringify({ scenario: { organ }, vary: [{ field: 'organ.mass', from: '1 ug', to: '2 ug', steps: 1001 }], outputs: [{ line: { component: 'total', axis: 'x', order: 1 } }] }));
+    expect(big.code).toBe(3);
+    expect(big.err).toMatch(/^over a limit:\n {2}vary: /);
+    const none = cli(['sweep']);
+    expect(none.code).toBe(1);
+    expect(none.err).toMatch(/^beatforce sweep: a sweep request FILE \(or - for standard input\) is required\nusage: beatforce sweep FILE/);
   });
 });
 

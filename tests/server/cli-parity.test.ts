@@ -3,6 +3,7 @@
  * gives identical numbers: JSON answers equal but for the service's input hash, CSV tables equal
  * byte for byte, and refusals list the same issues.
  */
+import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { main } from '../../cli/main.js';
@@ -59,6 +60,21 @@ describe('CLI and service give the same numbers', () => {
         expect(csvCli.code).toBe(0);
         expect((await post(`/api/v1/${command}?format=csv${query}`, exampleText(name))).body).toBe(csvCli.out);
       }
+    });
+  }
+
+  for (const name of ['fly-yaw-rate', 'mems-mode-split']) {
+    it(`sweep examples/sweeps/${name}.json: JSON equal (service adds inputHash), CSV tables equal`, async () => {
+      const path = fileURLToPath(new URL(`examples/sweeps/${name}.json`, ROOT));
+      const text = readFileSync(path, 'utf8');
+      const c = cli(['sweep', path, '--compact']);
+      expect(c.code).toBe(0);
+      const s = await post('/api/v1/sweep', text);
+      expect(s.statusCode).toBe(200);
+      const { inputHash, ...rest } = s.json() as Record<string, unknown>;
+      expect(inputHash).toMatch(/^[0-9a-f]{16}$/);
+      expect(JSON.stringify(rest)).toBe(c.out.trim());
+      expect((await post('/api/v1/sweep?format=csv', text)).body).toBe(cli(['sweep', path, '--format', 'csv']).out);
     });
   }
 
