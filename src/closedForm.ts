@@ -16,7 +16,7 @@ import { besselJ } from './bessel.js';
 import { N_AXES, TOTAL } from './components.js';
 import type { HarmonicTable } from './harmonics.js';
 import type { Geometry, Motion } from './model.js';
-import { cross, dot, scale, type Vec3 } from './vec.js';
+import type { Vec3 } from './vec.js';
 import type { SeriesWave } from './waveform.js';
 
 /** True when the closed form covers this organ (constant motion is the caller's business). */
@@ -95,12 +95,6 @@ const TERM_C = [0, 0, 0, 0, 1, 1, 1, 2, 2, 2, 3, 3, 4, 5] as const;
 const TERM_G = [G_ACC, G_ACC, G_RATE2, G_RATE2, G_ONE, G_ONE, G_ONE, G_ONE, G_ONE, G_ONE, G_RATE, G_RATE, G_ONE, G_ONE] as const;
 const TERM_TAU = [2, 1, 1, 2, 0, 1, 2, 0, 1, 2, 2, 1, 0, 0] as const;
 const N_TERMS = TERM_C.length;
-
-/** −Ω×(Ω×v) = v|Ω|² − Ω(Ω·v). */
-const centrifugal = (w: Vec3, v: Vec3): Vec3 => {
-  const w2 = dot(w, w), wv = dot(w, v);
-  return [v[0] * w2 - w[0] * wv, v[1] * w2 - w[1] * wv, v[2] * w2 - w[2] * wv];
-};
 
 /** −Ω×(Ω×v)·s = (v|Ω|² − Ω(Ω·v))·s into w at i. */
 function centrifugalInto(w: Float64Array, i: number, W: Vec3, v0: number, v1: number, v2: number, s: number): void {
@@ -290,6 +284,10 @@ function rotary(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   return out;
 }
 
+/** Linear organ terms: component, and series slot (0: 1, 1: x, 2: ẋ, 3: ẍ), in component order. */
+const LIN_C = [0, 1, 1, 2, 2, 3, 4, 5] as const;
+const LIN_SLOT = [3, 0, 1, 0, 1, 2, 0, 0] as const;
+
 function linear(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
   const wave = g.stroke as SeriesWave;
   const K1 = out.orders;
@@ -307,25 +305,32 @@ function linear(g: Geometry, m: Motion, out: HarmonicTable): HarmonicTable {
     b[XD + k] = kw * c; b[XD + L + k] = -kw * a;
     b[XDD + k] = -kw * kw * a; b[XDD + L + k] = -kw * kw * c;
   }
-  const M = g.mass, d = g.e1, Om = m.omega, Wd = m.omegaDot, Mh = scale(g.hinge, M);
-  const terms: [number, Vec3][][] = [
-    [[XDD, scale(d, -M)]],
-    [[ONE, centrifugal(Om, Mh)], [X, scale(centrifugal(Om, d), M)]],
-    [[ONE, scale(cross(Wd, Mh), -1)], [X, scale(cross(Wd, d), -M)]],
-    [[XD, scale(cross(Om, d), -2 * M)]],
-    [[ONE, scale(m.accel, -M)]],
-    [[ONE, scale(m.gravity, M)]],
-  ];
+  // The terms (design §4 with Σm r = M (h + x d)): component LIN_C[i], series in slot
+  // LIN_SLOT[i] (1, x, ẋ or ẍ), body vector in w[3i..3i+2] (a fixed scratch: nothing is allocated).
+  const M = g.mass, d = g.e1, Om = m.omega, Wd = m.omegaDot, A = m.accel, G = m.gravity;
+  const h0 = g.hinge[0] * M, h1 = g.hinge[1] * M, h2 = g.hinge[2] * M;
+  const tw = W.terms;
+  tw[0] = d[0] * -M; tw[1] = d[1] * -M; tw[2] = d[2] * -M; // primary: −M ẍ d
+  centrifugalInto(tw, 3, Om, h0, h1, h2, 1); // centrifugal: −Ω×(Ω×M h) − M x Ω×(Ω×d)
+  centrifugalInto(tw, 6, Om, d[0], d[1], d[2], M);
+  crossInto(tw, 9, Wd, h0, h1, h2, -1); // angular acceleration: −Ω̇×M h − M x Ω̇×d
+  crossInto(tw, 12, Wd, d[0], d[1], d[2], -M);
+  crossInto(tw, 15, Om, d[0], d[1], d[2], -2 * M); // Coriolis: −2 M ẋ Ω×d
+  tw[18] = A[0] * -M; tw[19] = A[1] * -M; tw[20] = A[2] * -M; // translational
+  tw[21] = G[0] * M; tw[22] = G[1] * M; tw[23] = G[2] * M; // gravity
   const pq = out.pq;
   pq.fill(0);
-  const axes = [g.e1, g.e2, g.e3];
+  const e2 = g.e2, e3 = g.e3;
   const step = K1 * 2;
-  for (let c = 0; c < TOTAL; c++) {
-    const at = c * N_AXES * step;
-    for (const [f, V] of terms[c] as [number, Vec3][]) {
-      for (let i = 0; i < 3; i++) addScaled(pq, at + i * step, K1, b, L, f, V[i] as number);
-      for (let i = 0; i < 3; i++) addScaled(pq, at + (3 + i) * step, K1, b, L, f, dot(V, axes[i] as Vec3));
-    }
+  for (let i = 0; i < LIN_C.length; i++) {
+    const at = (LIN_C[i] as number) * N_AXES * step, f = (LIN_SLOT[i] as number) * 2 * L;
+    const V0 = tw[3 * i] as number, V1 = tw[3 * i + 1] as number, V2 = tw[3 * i + 2] as number;
+    addScaled(pq, at, K1, b, L, f, V0);
+    addScaled(pq, at + step, K1, b, L, f, V1);
+    addScaled(pq, at + 2 * step, K1, b, L, f, V2);
+    addScaled(pq, at + 3 * step, K1, b, L, f, V0 * d[0] + V1 * d[1] + V2 * d[2]);
+    addScaled(pq, at + 4 * step, K1, b, L, f, V0 * e2[0] + V1 * e2[1] + V2 * e2[2]);
+    addScaled(pq, at + 5 * step, K1, b, L, f, V0 * e3[0] + V1 * e3[1] + V2 * e3[2]);
   }
   sumTotal(pq, K1);
   return out;
