@@ -3,7 +3,8 @@ import { toCsv, type Cell } from '../csv.js';
 import { RATE_AXES } from './pair.js';
 import type { SensingAnswer } from './sensing.js';
 
-const UNIT_TAG = { load: 'N', strain: 'strain', displacement: 'm' } as const;
+/** The unit of a channel quantity as CSV headers write it. */
+export const UNIT_TAG = { load: 'N', strain: 'strain', displacement: 'm' } as const;
 
 /** Header names carry units; the channel quantity's unit is named once (N, strain or m). */
 export function sensingCsv(a: SensingAnswer): string {

@@ -1,13 +1,14 @@
 /** The answers of `turn` as CSV tables: the beat-by-beat read-out, and the decimated series. */
 import { toCsv, type Cell } from '../csv.js';
+import { UNIT_TAG } from '../sensing/table.js';
 import type { Leaf } from './series.js';
 import type { TurnAnswer } from './turn.js';
 
 const AXES = ['roll', 'pitch', 'yaw'] as const;
 
-/** One row per beat: time, true and estimated rates, then each channel's in-phase output. */
+/** One row per beat: time, true and estimated rates, then each channel's in-phase output (in its quantity: N, strain or m). */
 export function beatsCsv(a: TurnAnswer): string {
-  const channels = a.readout.channels.map((c) => `inphase_${c.side}_${c.axis}_k${c.order}_N`);
+  const channels = a.readout.channels.map((c) => `inphase_${c.side}_${c.axis}_k${c.order}_${UNIT_TAG[c.quantity]}`);
   const header = ['beat', 'time_s', ...AXES.map((x) => `true_${x}_rad_s`), ...AXES.map((x) => `estimated_${x}_rad_s`), ...channels];
   const rows: Cell[][] = a.beats.map((r, b) => [b, r.time, ...AXES.map((x) => r.trueRate[x]), ...AXES.map((x) => r.estimatedRate[x]), ...r.inPhase]);
   return toCsv(header, rows);

@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { LIMITS } from '../../src/limits.js';
 import { axisAt, rateProfile } from '../../src/turn/profiles.js';
+import { beatsCsv } from '../../src/turn/tables.js';
 import { turn, type TurnAnswer } from '../../src/turn/turn.js';
 
 const organ = { mass: '7 ug', arm: '0.9 mm', frequency: '200 Hz', amplitude: '80 deg', rest: [0, 1, 0], normal: [0.89, 0, 0.45], hinge: ['0.3 mm', '0.45 mm', '-0.2 mm'] };
@@ -174,5 +175,26 @@ describe('turn(examples/fly-saccade.json)', () => {
     const peak = Math.max(...a.beats.map((b) => b.trueRate.yaw));
     expect(peak).toBeGreaterThan(0.95 * ((1500 * Math.PI) / 180));
     expect(a.lag.yaw).toBeGreaterThan(0);
+  });
+});
+
+describe('beatsCsv(answer)', () => {
+  it('names each channel in the unit of what it reads: a load in N, the stalk strain, a sense-mode displacement in m', () => {
+    const stalk = { length: '0.8 mm', outerRadius: '40 um', innerRadius: '30 um', modulus: '5 GPa', mass: '1 ug' };
+    const mems = { drive: 'linear', mass: '4 ug', frequency: '15 kHz', amplitude: '4 um', driveAxis: [0, 1, 0], senseAxis: [1, 0, 0], hinge: [0, '0.5 mm', 0], senseMode: { frequency: '15.3 kHz', quality: 800, mass: '4 ug' } };
+    const cases: [string, Record<string, unknown>, 'N' | 'strain' | 'm'][] = [
+      ['load', { organ }, 'N'],
+      ['strain', { organ: { ...organ, stalk } }, 'strain'],
+      ['displacement', { organ: mems, sensor: { readoutNoise: '1e-14 m / Hz^0.5' } }, 'm'],
+    ];
+    for (const [quantity, doc, unit] of cases) {
+      const maneuver = quantity === 'displacement' ? { duration: '2 ms', yaw: { pulse: { peak: '100 deg/s', duration: '1 ms', start: '0.5 ms' } } } : saccade;
+      const a = answer({ ...doc, body: { maneuver }, output: { series: false } });
+      const channels = a.readout.channels;
+      expect(channels.length).toBeGreaterThan(0);
+      expect(channels.every((c) => c.quantity === quantity), quantity).toBe(true);
+      const header = beatsCsv(a).split('\r\n')[0]?.split(',') ?? [];
+      expect(header.slice(8)).toEqual(channels.map((c) => `inphase_${c.side}_${c.axis}_k${c.order}_${unit}`));
+    }
   });
 });
