@@ -321,26 +321,54 @@ function figure(answer: unknown, path: readonly Segment[]): number | undefined {
   return typeof v === 'number' ? v : v === null ? Number.NaN : undefined;
 }
 
-/** The unit of a sensing figure, from the figure's name and the channel's unit (SI; '1' for ratios). */
+/** Figures whose unit does not depend on the channel: by name (the last name in the path). */
+const FIXED_UNITS: Record<string, string> = {
+  minimumRate: 'rad/s', rate: 'rad/s', worstCase: 'rad/s',
+  snr: '1', conditionNumber: '1', order: '1', channels: '1', organs: '1', beats: '1', quality: '1', forceGain: '1', ratio: '1',
+  rateNoiseDensity: '(rad/s)/Hz^0.5', angleRandomWalk: 'deg/h^0.5', covariance: '(rad/s)^2',
+  frequency: 'Hz', referencePhase: 'rad', phase: 'rad', time: 's',
+  // the sense mode's constants and transfer
+  mass: 'kg', stiffness: 'N/m', damping: 'N s/m', thermalForceDensity: 'N/Hz^0.5', magnitude: 'm/N',
+  // the stalk
+  leverArm: 'm', area: 'm^2', secondMomentNormal: 'm^4', secondMomentInPlane: 'm^4', inner: 'm', outer: 'm',
+};
+
+/**
+ * The SI unit of a number in the sensing answer ('1' for ratios and counts), from its place in the
+ * answer and the unit of the quantity its channels read (N, strain '1' or m). The sensing answer's
+ * `units` map says the same in words.
+ */
 export function sensingUnit(answer: unknown, path: readonly Segment[]): string {
   const names = path.filter((p): p is string => typeof p === 'string');
   const last = names[names.length - 1] ?? '';
-  const organ = path[0] === 'organs' && typeof path[1] === 'number' ? getAt(answer, ['organs', path[1], 'read', 'unit']) : undefined;
-  const raw = typeof organ === 'string' ? organ : getAt(answer, [...path.slice(0, -1), 'unit']);
-  const unit = typeof raw === 'string' ? (raw.startsWith('1') ? '1' : raw) : '';
+  const plain = (raw: unknown): string => (typeof raw === 'string' ? (raw.startsWith('1') ? '1' : raw) : '');
+  const perRate = (u: string): string => (u === '' ? '' : u === '1' ? '1/(rad/s)' : `${u}/(rad/s)`);
+  const organUnit = path[0] === 'organs' && typeof path[1] === 'number' ? plain(getAt(answer, ['organs', path[1], 'read', 'unit'])) : '';
   if (names.includes('perAngularAcceleration')) return 's';
   if (names.includes('bias')) return 'rad/s';
+  if (names.includes('crossAxis') || names.includes('confusions')) return '1';
+  if (path[0] === 'pair') {
+    if (path[1] === 'matrix' && typeof path[2] === 'number') {
+      const row = plain(getAt(answer, ['pair', 'matrix', path[2], 'unit']));
+      if (last === 'noise') return row;
+      if (last === 'roll' || last === 'pitch' || last === 'yaw') return perRate(row);
+    }
+    if (last === 'singularValues') return getAt(answer, ['pair', 'weighted']) === true ? '1/(rad/s)' : perRate(plain(getAt(answer, ['pair', 'matrix', 0, 'unit'])));
+  }
+  if (names.includes('senseMode')) {
+    if (names.includes('perUnitRate') && last === 'amplitude') return 'm/(rad/s)';
+    if (names.includes('displacement') && last === 'amplitude') return 'm';
+  }
+  if (names.includes('strain')) {
+    if (names.includes('perLoad')) return '1/N';
+    if (last === 'amplitude') return '1';
+  }
+  const fixed = FIXED_UNITS[last];
+  if (fixed !== undefined) return fixed;
   switch (last) {
-    case 'minimumRate': case 'rate': case 'worstCase': return 'rad/s';
-    case 'snr': case 'conditionNumber': case 'roll': case 'pitch': case 'yaw': return '1';
-    case 'rateNoiseDensity': return '(rad/s)/Hz^0.5';
-    case 'angleRandomWalk': return 'deg/h^0.5';
-    case 'scaleFactor': case 'quadratureScaleFactor': return unit ? `${unit}/(rad/s)` : '';
-    case 'signal': case 'sigma': return unit;
-    case 'density': case 'thermalDensity': case 'readoutDensity': return unit ? `${unit}/Hz^0.5` : '';
-    case 'frequency': return 'Hz';
-    case 'referencePhase': case 'phase': return 'rad';
-    case 'time': return 's';
+    case 'scaleFactor': case 'quadratureScaleFactor': return perRate(organUnit);
+    case 'signal': case 'sigma': return organUnit;
+    case 'density': case 'thermalDensity': case 'readoutDensity': return organUnit ? `${organUnit}/Hz^0.5` : '';
     default: return '';
   }
 }

@@ -184,6 +184,44 @@ describe('sweep(request): sensing figures', () => {
   });
 });
 
+describe('sweep(request): the unit of every sensing figure', () => {
+  /** Every numeric leaf of a sensing answer (first element of each list), outside the echoed scenario. */
+  function leaves(x: unknown, p: string, out: string[]): string[] {
+    if (Array.isArray(x)) {
+      if (x.length > 0) leaves(x[0], `${p}[0]`, out);
+    } else if (x !== null && typeof x === 'object') {
+      for (const [k, v] of Object.entries(x)) if (!(p === '' && (k === 'scenario' || k === 'version'))) leaves(v, p ? `${p}.${k}` : k, out);
+    } else if (typeof x === 'number') out.push(p);
+    return out;
+  }
+
+  it.each(['fly-sensing', 'mems-sensing'])('names an SI unit for every number of the %s answer, the stalk and sense-mode tables included', (name) => {
+    const scenario = { ...example(name), output: { series: false, lines: true } };
+    const r = sensing(scenario);
+    if (!r.ok) throw new Error('invalid');
+    const paths = leaves(r.answer, '', []);
+    expect(paths.length).toBeGreaterThan(40);
+    const units = [];
+    for (let i = 0; i < paths.length; i += SWEEP_LIMITS.sweepOutputs) {
+      const outputs = paths.slice(i, i + SWEEP_LIMITS.sweepOutputs).map((sensing) => ({ sensing }));
+      units.push(...ok(sweep({ scenario, vary: [{ field: 'sensor.threshold', values: [1] }], outputs })).columns.slice(1));
+    }
+    expect(units).toHaveLength(paths.length);
+    expect(units.filter((c) => c.unit === '').map((c) => c.name)).toEqual([]);
+  });
+
+  it('gives the channel-dependent figures the unit of what the channel reads (the answer\'s units map, in SI)', () => {
+    const unitOf = (name: string, paths: string[]) => {
+      const scenario = { ...example(name), output: { series: false, lines: true } };
+      return ok(sweep({ scenario, vary: [{ field: 'sensor.threshold', values: [1] }], outputs: paths.map((sensing) => ({ sensing })) })).columns.slice(1).map((c) => c.unit);
+    };
+    expect(unitOf('mems-sensing', ['organs[0].senseMode.thermalForceDensity', 'organs[0].senseMode.stiffness', 'organs[0].senseMode.damping', 'organs[0].senseMode.transfer[0].magnitude', 'organs[0].senseMode.perUnitRate.yaw[0].amplitude', 'pair.matrix[0].yaw', 'pair.matrix[0].noise', 'pair.covariance[2][2]', 'pair.singularValues[0]', 'organs[0].axes.yaw.noise.density']))
+      .toEqual(['N/Hz^0.5', 'N/m', 'N s/m', 'm/N', 'm/(rad/s)', 'm/(rad/s)', 'm', '(rad/s)^2', '1/(rad/s)', 'm/Hz^0.5']);
+    expect(unitOf('fly-sensing', ['organs[0].strain.perLoad.inPlane', 'organs[0].strain.section.secondMomentNormal', 'organs[0].strain.leverArm', 'organs[0].strain.harmonics[0].amplitude', 'pair.matrix[0].roll', 'organs[0].axes.yaw.crossAxis.roll', 'integration.beats']))
+      .toEqual(['1/N', 'm^4', 'm', '1', '1/(rad/s)', '1', '1']);
+  });
+});
+
 describe('sweep(request): refusals name the field', () => {
   const line = { line: { component: 'total', axis: 'x', order: 1 } };
   const cases: [string, unknown, { path: string; message: string; limit?: string }[]][] = [
