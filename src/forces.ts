@@ -11,7 +11,7 @@ import { compile, mirroredMotion, type Geometry, type Model, type Motion, type S
 import { finiteAnswer } from './finite.js';
 import { parseScenario, type Issue, type Scenario } from './scenario.js';
 import { VERSION } from './version.js';
-import { beatTable, contentOrder, sampleBeat, type FitReport, type WaveSamples } from './waveform.js';
+import { beatFrequencyOf, beatTable, contentOrder, fitTrace, sampleBeat, type FitReport, type WaveSamples } from './waveform.js';
 
 export type Path = 'closed-form' | 'sampled';
 
@@ -197,6 +197,21 @@ export function choosePath(s: Scenario, m: Model): { path: Path } | { issue: Iss
   return { path: s.output.path === 'sampled' || !applies ? 'sampled' : 'closed-form' };
 }
 
+/**
+ * When a measured stroke fits poorly, the beat frequency its mean crossings give, if a fit there is
+ * at least twice as good (the likeliest slip is the frequency); '' otherwise. Runs only on that path.
+ */
+function frequencyHint(s: Scenario, residualRms: number): string {
+  const w = s.organ.waveform;
+  if (typeof w !== 'object' || !('samples' in w)) return '';
+  const { time, values } = w.samples;
+  const f = beatFrequencyOf(time, values);
+  if (f === undefined || Math.abs(f / s.organ.frequency - 1) < 1e-3) return '';
+  const refit = fitTrace(time, values, f, w.harmonics);
+  if (!refit.fit || !(refit.fit.residualRms < 0.5 * residualRms)) return '';
+  return ` (the trace's upward crossings of its mean give ${f.toPrecision(4)} Hz, where the residual RMS is ${refit.fit.residualRms.toPrecision(3)}: set organ.frequency to it if that is the beat)`;
+}
+
 /** Warnings a careful user should read with the numbers. */
 export function warningsFor(s: Scenario, m: Model, path: Path): string[] {
   const warnings: string[] = [];
@@ -209,7 +224,7 @@ export function warningsFor(s: Scenario, m: Model, path: Path): string[] {
   if (m.fit) {
     const w = m.geometry.stroke;
     const swing = w.kind === 'series' ? Math.max(...Array.from(w.cos, (a, i) => Math.hypot(a, w.sin[i] ?? 0))) : 0;
-    if (m.fit.residualRms > 0.1 * swing) warnings.push(`the fit's residual RMS (${m.fit.residualRms.toPrecision(3)}) is over 10% of the largest stroke harmonic; check the frequency or add harmonics`);
+    if (m.fit.residualRms > 0.1 * swing) warnings.push(`the fit's residual RMS (${m.fit.residualRms.toPrecision(3)}) is over 10% of the largest stroke harmonic; check the frequency${frequencyHint(s, m.fit.residualRms)} or add harmonics`);
   }
   return warnings;
 }

@@ -120,6 +120,41 @@ export function fitTrace(time: readonly number[], values: readonly number[], fre
   return { wave, fit: { harmonics, points: n, residualRms: Math.sqrt(ss / n), conditionNumber: condition, spanBeats } };
 }
 
+/**
+ * The beat frequency of a trace from its upward crossings of its mean (Hz), for a hint when the
+ * fit at the scenario's frequency is poor: a crossing counts once the trace has been below the
+ * mean by a quarter of its half-range (hysteresis against noise), its time interpolated between
+ * the samples around it; f = (crossings − 1) / (last − first). Undefined with fewer than three.
+ */
+export function beatFrequencyOf(time: readonly number[], values: readonly number[]): number | undefined {
+  const n = Math.min(time.length, values.length);
+  if (n < 8) return undefined;
+  let mean = 0, lo = Infinity, hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const x = values[i] as number;
+    mean += x;
+    if (x < lo) lo = x;
+    if (x > hi) hi = x;
+  }
+  mean /= n;
+  const h = (hi - lo) / 8;
+  if (!(h > 0)) return undefined;
+  let armed = false, first = 0, last = 0, count = 0;
+  for (let i = 1; i < n; i++) {
+    const x = (values[i] as number) - mean;
+    if (x < -h) armed = true;
+    else if (armed && x >= 0) {
+      const x0 = (values[i - 1] as number) - mean, t0 = time[i - 1] as number, t1 = time[i] as number;
+      const tc = x0 < 0 ? t0 + ((t1 - t0) * -x0) / (x - x0) : t1;
+      if (count === 0) first = tc;
+      last = tc;
+      count++;
+      armed = false;
+    }
+  }
+  return count >= 3 && last > first ? (count - 1) / (last - first) : undefined;
+}
+
 /** s at phase u = ωt (used by the fit's residual and by tests). */
 export function evaluateAt(wave: Wave, u: number): number {
   if (wave.kind === 'triangle') return wave.mean + wave.amplitude * triangleShape(wave.rounding, u, 0);

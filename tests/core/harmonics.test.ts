@@ -184,6 +184,23 @@ describe('fit of a measured trace (waveform samples)', () => {
     expect(run(doc).fit).toEqual(fit);
   });
 
+  it('when the scenario\'s frequency misses the trace\'s beat, the warning names the beat its mean crossings give and the residual there', () => {
+    // A trace beating at f = 150 Hz over 6 beats, given to a scenario that says 156 Hz (4 % off).
+    const sigma = 0.02, points = 900, K = 4;
+    const samples = trace(points, 6, sigma, 7);
+    const wrong = run({ organ: { ...organ, frequency: 156, waveform: { samples, harmonics: K } }, output: { series: false } });
+    const hint = wrong.warnings.find((w) => w.startsWith("the fit's residual RMS"));
+    expect(hint).toBeDefined();
+    const m = /mean give ([\d.]+) Hz, where the residual RMS is ([\d.e-]+):/.exec(hint ?? '');
+    expect(m, hint).not.toBeNull();
+    // The crossing estimate averages 5 periods: within 0.5 % of the true beat here.
+    expect(Number(m?.[1]) / f).toBeCloseTo(1, 2);
+    // At that frequency the residual is back near the noise σ √(1 − (2K+1)/n) (within 10 %: the estimate is not exact).
+    expect(Number(m?.[2]) / (sigma * Math.sqrt(1 - (2 * K + 1) / points))).toBeLessThan(1.1);
+    // At the right frequency there is no such warning.
+    expect(run({ organ: { ...organ, waveform: { samples, harmonics: K } }, output: { series: false } }).warnings.filter((w) => w.includes('residual RMS'))).toEqual([]);
+  });
+
   it('recovers the coefficients exactly (to rounding) from a clean trace', () => {
     const p = parseScenario({ organ: { ...organ, waveform: { samples: trace(200, 1.2, 0, 1), harmonics: 3 } } });
     if (!p.ok) throw new Error(JSON.stringify(p.issues));
