@@ -393,7 +393,7 @@ function plan(req: SweepRequest, issues: SweepIssue[]): Plan | undefined {
   if (sc === null || typeof sc !== 'object' || Array.isArray(sc)) {
     // Not an object: no grid point can make it one; refuse it as the scenario routes do.
     const r = parseScenario(sc);
-    if (!r.ok) issues.push(...prefixed(r.issues, 'scenario'));
+    issues.push(...(r.ok ? [{ path: 'scenario', message: `${show(sc)} is not an object` }] : prefixed(r.issues, 'scenario')));
     return undefined;
   }
   const drive = driveOf(sc);
@@ -432,13 +432,13 @@ function pointValues(axes: readonly GridAxis[], i: number, out: number[]): numbe
   return out;
 }
 
-/** Run a sweep request (see the module comment). */
 /** An unknown member outside the scenario is checked against the sweep request's reference, not the scenario's. */
 const requestWords = (i: SweepIssue): SweepIssue =>
   i.path.startsWith('scenario') || !i.message.startsWith('is not a field here')
     ? i
     : { ...i, message: 'is not a field here; a sweep request has scenario, vary, outputs, and optionally name and description (docs/service.md, Sweeps)' };
 
+/** Run a sweep request (see the module comment). */
 export function sweep(request: unknown, options: SweepOptions = {}): SweepResult {
   const deep = nestingIssues(request, 'sweep');
   if (deep.length > 0) return { ok: false, issues: deep };
