@@ -53,7 +53,10 @@ function camera(view: ViewName): { right: Vec3; up: Vec3; toward: Vec3 } {
 
 export function drawSketch(svg: SVGSVGElement, g: SketchGeometry, view: ViewName): void {
   const cam = camera(view);
-  const extent = Math.max(g.arm || 0, ...g.organs.map((o) => Math.hypot(...o.hinge) + (g.drive === 'rotary' ? g.arm : 0))) || 1e-3;
+  // Rotary: hinge plus arm. Linear: the drive bar (±0.45 extent about the mass) must end inside the
+  // body axes (1.1 extent) and their labels, so the mass sits at 0.55 extent at most.
+  const reach = (o: SketchGeometry['organs'][number]) => (g.drive === 'rotary' ? Math.hypot(...o.hinge) + g.arm : Math.hypot(...o.hinge) / 0.55);
+  const extent = Math.max(g.arm || 0, ...g.organs.map(reach)) || 1e-3;
   const unit = 118 / extent; // 1 extent → 118 px
   const P = (p: Vec3): [number, number] => [dot(p, cam.right) * unit, -dot(p, cam.up) * unit];
   const pts = (list: Vec3[]) => list.map((p) => P(p).map((v) => v.toFixed(1)).join(',')).join(' ');
