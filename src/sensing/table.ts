@@ -32,7 +32,7 @@ export function sensingCsv(a: SensingAnswer): string {
   for (const axis of RATE_AXES) {
     const row: Cell[] = new Array<Cell>(header.length).fill(undefined);
     row[0] = 'pair';
-    row[1] = 'both';
+    row[1] = a.organs.length > 1 ? 'both' : 'specified'; // without a mirror: every line of the one organ read together
     row[2] = axis;
     row[14] = a.pair[axis].minimumRate;
     row[15] = a.pair[axis].detectable;

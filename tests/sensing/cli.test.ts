@@ -39,6 +39,12 @@ describe('beatforce sensing FILE', () => {
     expect(lines.length).toBe(1 + 6 + 3);
     expect(lines[3]).toMatch(/^right,specified,yaw,normal,2,360,/);
     expect(lines[9]).toMatch(/^pair,both,yaw,/);
+    // Without a mirror organ the pair rows are the one organ's lines read together, and say so.
+    const single = run(['sensing', file(withFields(example('fly-sensing'), { organ: { ...(example('fly-sensing').organ as object), mirror: false } })), '--format', 'csv']);
+    expect(single.code).toBe(0);
+    const rows = single.out.trim().split('\r\n');
+    expect(rows.length).toBe(1 + 3 + 3);
+    expect(rows.slice(4).map((l) => l.split(',').slice(0, 3).join(','))).toEqual(['pair,specified,roll', 'pair,specified,pitch', 'pair,specified,yaw']);
   });
 
   it('refuses bad input with the field named and exit code 2', () => {

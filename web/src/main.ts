@@ -198,7 +198,7 @@ function drawSummary(): void {
   const s = bench.answers.sensing;
   const so = s?.organs.find((o) => o.role === 'specified') ?? s?.organs[0];
   if (s && so) {
-    const head = h('tr', {}, h('th', { scope: 'col' }, 'axis'), h('th', { scope: 'col' }, 'best line'), h('th', { scope: 'col' }, 'this turn'), h('th', { scope: 'col' }, 'organ'), h('th', { scope: 'col' }, 'pair'));
+    const head = h('tr', {}, h('th', { scope: 'col' }, 'axis'), h('th', { scope: 'col' }, 'best line'), h('th', { scope: 'col' }, 'this turn'), h('th', { scope: 'col' }, 'organ'), h('th', { scope: 'col', title: s.organs.length > 1 ? 'both organs read together' : 'every read line of the one organ read together (no mirror organ)' }, s.organs.length > 1 ? 'pair' : 'all lines'));
     const body = BODY_AXES.map((ax) => {
       const one = so.axes[ax];
       return h('tr', {}, h('th', { scope: 'row' }, ax), h('td', {}, one?.channel ? `${one.channel.axis} k=${one.channel.order}` : '–'), verdictCell(one), h('td', {}, rateText(one?.minimumRate)), h('td', {}, rateText(s.pair?.[ax]?.minimumRate)));
