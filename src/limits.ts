@@ -13,6 +13,8 @@ export const LIMITS = {
   tracePoints: 100_000,
   /** Harmonics fitted to a measured trace. */
   fitHarmonics: 64,
+  /** points × (2K+1)² of one trace fit (its QR costs about twice that in flops: about 0.5 s at the limit here). */
+  fitWork: 100_000_000,
   /** Terms in a `harmonics` waveform. */
   waveformTerms: 256,
   /** Numbers in the series of one turn answer (series × kept samples); decimate to fit. */

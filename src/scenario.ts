@@ -90,6 +90,14 @@ const samplesWave = (valueKey: 'angle' | 'position', dim: DimensionName) =>
       ctx.addIssue({ code: 'custom', path: ['samples', 'time'], message: `${time.length} points cannot support ${w.harmonics} harmonics; expected at least 2K+1 = ${need} points` });
       return z.NEVER;
     }
+    if (time.length * need * need > LIMITS.fitWork) {
+      const most = Math.floor((Math.sqrt(LIMITS.fitWork / time.length) - 1) / 2);
+      ctx.addIssue({
+        code: 'custom', path: ['harmonics'], params: { limit: 'fitWork' },
+        message: `${w.harmonics} harmonics over ${time.length} points is over the limit of ${LIMITS.fitWork.toExponential(0).replace('e+', 'e')} for points × (2K+1)², the work of the fit; expected at most ${most} harmonics for this trace, or fewer points`,
+      });
+      return z.NEVER;
+    }
     for (let i = 1; i < time.length; i++) {
       if (!((time[i] as number) > (time[i - 1] as number))) {
         ctx.addIssue({ code: 'custom', path: ['samples', 'time', i], message: `${time[i]} does not come after ${time[i - 1]}; expected times strictly increasing` });

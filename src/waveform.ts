@@ -78,25 +78,58 @@ export function fromTerms(mean: number, terms: readonly { order: number; cos: nu
 }
 
 /**
- * Least-squares fit of s(t) = s̄ + Σ_{k=1..K} a_k cos kωt + b_k sin kωt to a trace, by SVD.
- * Refused when the design matrix is too ill-conditioned to support K harmonics
- * (a trace that covers too little of a beat, or too coarsely).
+ * Least-squares fit of s(t) = s̄ + Σ_{k=1..K} a_k cos kωt + b_k sin kωt to a trace, by Householder
+ * QR of the n × (2K+1) design matrix (column-major typed array, 2n(2K+1)² flops; backward stable,
+ * as good as an SVD for the solve) and back substitution; the condition number is that of R, from
+ * ml-matrix's SVD of the small (2K+1)² triangle (equal to the design matrix's). Refused when it is
+ * too ill-conditioned to support K harmonics (a trace that covers too little of a beat, or too
+ * coarsely). cos kωt, sin kωt come from cos ωt, sin ωt by the angle-addition recurrence.
  */
 export function fitTrace(time: readonly number[], values: readonly number[], frequency: number, harmonics: number): { wave: Wave; fit?: FitReport; error?: string } {
   const n = time.length;
-  const cols = 2 * harmonics + 1;
+  const m = 2 * harmonics + 1;
   const w = 2 * Math.PI * frequency;
-  const a = new Matrix(n, cols);
+  const A = new Float64Array(m * n); // column j at j·n
   for (let i = 0; i < n; i++) {
-    const t = time[i] as number;
-    a.set(i, 0, 1);
+    const u = w * (time[i] as number);
+    const c1 = Math.cos(u), s1 = Math.sin(u);
+    let c = c1, s = s1;
+    A[i] = 1;
     for (let k = 1; k <= harmonics; k++) {
-      a.set(i, 2 * k - 1, Math.cos(k * w * t));
-      a.set(i, 2 * k, Math.sin(k * w * t));
+      A[(2 * k - 1) * n + i] = c;
+      A[2 * k * n + i] = s;
+      const cn = c * c1 - s * s1;
+      s = s * c1 + c * s1;
+      c = cn;
     }
   }
-  const svd = new SVD(a, { autoTranspose: true });
-  const condition = svd.condition;
+  const y = Float64Array.from(values);
+  const diag = new Float64Array(m);
+  for (let j = 0; j < m && j < n; j++) {
+    const cj = j * n;
+    let ss = 0;
+    for (let i = j; i < n; i++) ss += (A[cj + i] as number) * (A[cj + i] as number);
+    const ajj = A[cj + j] as number;
+    const alpha = ajj > 0 ? -Math.sqrt(ss) : Math.sqrt(ss);
+    diag[j] = alpha;
+    const v0 = ajj - alpha;
+    const vv = ss - ajj * ajj + v0 * v0; // ‖v‖², v = column j below the diagonal with v_j = a_jj − α
+    if (!(vv > 0)) continue;
+    A[cj + j] = v0;
+    for (let k = j + 1; k <= m; k++) {
+      const col = k < m ? A : y, ck = k < m ? k * n : 0;
+      let d = 0;
+      for (let i = j; i < n; i++) d += (A[cj + i] as number) * (col[ck + i] as number);
+      const f = (2 * d) / vv;
+      for (let i = j; i < n; i++) col[ck + i] = (col[ck + i] as number) - f * (A[cj + i] as number);
+    }
+  }
+  const R = new Matrix(m, m);
+  for (let j = 0; j < m; j++) {
+    R.set(j, j, diag[j] as number);
+    for (let k = j + 1; k < m; k++) R.set(j, k, A[k * n + j] as number);
+  }
+  const condition = n >= m && diag.every((d) => d !== 0) ? new SVD(R).condition : Infinity;
   const spanBeats = ((time[n - 1] as number) - (time[0] as number)) * frequency;
   if (!(condition < 1e8)) {
     return {
@@ -104,14 +137,19 @@ export function fitTrace(time: readonly number[], values: readonly number[], fre
       error: `the trace (${n} points over ${spanBeats.toPrecision(3)} beats) cannot support ${harmonics} harmonics at ${frequency} Hz: the fit is singular (condition number ${condition.toPrecision(3)}); use fewer harmonics or a trace that covers a whole beat`,
     };
   }
-  const x = svd.solve(Matrix.columnVector([...values])).to1DArray();
+  const x = new Float64Array(m);
+  for (let j = m - 1; j >= 0; j--) {
+    let r = y[j] as number;
+    for (let k = j + 1; k < m; k++) r -= (A[k * n + j] as number) * (x[k] as number);
+    x[j] = r / (diag[j] as number);
+  }
   const cos = new Float64Array(harmonics);
   const sin = new Float64Array(harmonics);
   for (let k = 1; k <= harmonics; k++) {
-    cos[k - 1] = x[2 * k - 1] ?? 0;
-    sin[k - 1] = x[2 * k] ?? 0;
+    cos[k - 1] = x[2 * k - 1] as number;
+    sin[k - 1] = x[2 * k] as number;
   }
-  const wave: SeriesWave = { kind: 'series', mean: x[0] ?? 0, cos, sin };
+  const wave: SeriesWave = { kind: 'series', mean: x[0] as number, cos, sin };
   let ss = 0;
   for (let i = 0; i < n; i++) {
     const r = (values[i] as number) - evaluateAt(wave, w * (time[i] as number));

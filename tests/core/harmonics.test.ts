@@ -9,7 +9,8 @@ import { COMPONENTS } from '../../src/components.js';
 import { allocHarmonics, amplitudePhase, lineIndex, loadHarmonics } from '../../src/harmonics.js';
 import { compile, forces, parseScenario, type ForcesAnswer } from '../../src/index.js';
 import { allocLoads } from '../../src/loads.js';
-import { beatTable } from '../../src/waveform.js';
+import { Matrix, SVD } from 'ml-matrix';
+import { beatTable, fitTrace } from '../../src/waveform.js';
 import { gaussian, prng } from './independent.js';
 
 const require = createRequire(import.meta.url);
@@ -199,6 +200,50 @@ describe('fit of a measured trace (waveform samples)', () => {
     expect(Number(m?.[2]) / (sigma * Math.sqrt(1 - (2 * K + 1) / points))).toBeLessThan(1.1);
     // At the right frequency there is no such warning.
     expect(run({ organ: { ...organ, waveform: { samples, harmonics: K } }, output: { series: false } }).warnings.filter((w) => w.includes('residual RMS'))).toEqual([]);
+  });
+
+  it('solves the least-squares problem as an SVD solve does (ml-matrix), to its condition number times rounding, and refuses the same traces', () => {
+    // Reference: ml-matrix's SVD of the whole n × (2K+1) design matrix, built with Math.cos/sin per
+    // entry; the core uses Householder QR and the angle-addition recurrence. Random traces, from
+    // well covered (5 beats) to a few percent of a beat (condition numbers up to ~1e8 and far beyond).
+    const rnd = prng(23);
+    let compared = 0, refused = 0;
+    for (let trial = 0; trial < 60; trial++) {
+      const K = 1 + Math.floor(rnd() * 10), n = 2 * K + 1 + Math.floor(rnd() * 300), fr = 50 + rnd() * 300;
+      const span = trial % 6 === 0 ? 0.02 + 0.05 * rnd() : 0.15 + 5 * rnd(); // every sixth: a few percent of a beat
+      const t0 = 0.003 * rnd();
+      const time = Array.from({ length: n }, (_, i) => t0 + (i / (n - 1)) * (span / fr));
+      const values = time.map((t) => 1.2 * Math.sin(2 * Math.PI * fr * t) + 0.3 * Math.cos(4 * Math.PI * fr * t) + 0.05 * (rnd() - 0.5));
+      const a = new Matrix(n, 2 * K + 1);
+      time.forEach((t, i) => {
+        a.set(i, 0, 1);
+        for (let k = 1; k <= K; k++) {
+          a.set(i, 2 * k - 1, Math.cos(2 * Math.PI * fr * k * t));
+          a.set(i, 2 * k, Math.sin(2 * Math.PI * fr * k * t));
+        }
+      });
+      const svd = new SVD(a, { autoTranspose: true });
+      const ours = fitTrace(time, values, fr, K);
+      if (!(svd.condition < 1e8)) {
+        // at the threshold both may land either side of it; far beyond, both refuse
+        if (svd.condition > 1e9) expect(ours.error, `cond ${svd.condition}`).toBeDefined();
+        refused++;
+        continue;
+      }
+      if (svd.condition < 1e7) expect(ours.error).toBeUndefined();
+      if (ours.error) continue;
+      const x = svd.solve(Matrix.columnVector(values)).to1DArray();
+      const w = ours.wave;
+      if (w.kind !== 'series') throw new Error('expected a series');
+      const got = [w.mean, ...Array.from({ length: K }, (_, k) => [w.cos[k] as number, w.sin[k] as number]).flat()];
+      const scale = Math.max(...x.map(Math.abs));
+      const diff = Math.max(...got.map((v, i) => Math.abs(v - (x[i] as number))));
+      expect(diff / scale, `n ${n}, K ${K}, ${span.toFixed(2)} beats, cond ${svd.condition.toPrecision(3)}`).toBeLessThan(1e-13 * Math.max(1, svd.condition));
+      expect(ours.fit?.conditionNumber as number / svd.condition).toBeCloseTo(1, 6);
+      compared++;
+    }
+    expect(compared).toBeGreaterThan(40);
+    expect(refused).toBeGreaterThan(0);
   });
 
   it('recovers the coefficients exactly (to rounding) from a clean trace', () => {

@@ -181,6 +181,14 @@ describe('forces(doc) refuses bad input, naming the field, the value and what wa
       { path: 'organ.waveform.samples.time', message: '100001 points is over the limit of 100000', limit: 'tracePoints' },
       { path: 'organ.waveform.samples.angle', message: '100001 points is over the limit of 100000', limit: 'tracePoints' },
     ]);
+    // The fit's work, points × (2K+1)²: 6,000 points allow all 64 harmonics (6000·129² < 1e8), 7,000 do not.
+    const trace = (n: number) => Array.from({ length: n }, (_, i) => i * 1e-5);
+    const fit = (n: number, K: number) => ({ organ: { ...organ, amplitude: undefined, waveform: { samples: { time: trace(n), angle: trace(n).map((t) => Math.sin(1131 * t)) }, harmonics: K } }, output: { series: false } });
+    expect(LIMITS.fitWork).toBe(1e8);
+    expect(forces(fit(6000, 64)).ok).toBe(true);
+    expect(issuesOf(fit(7000, 64))).toEqual([
+      { path: 'organ.waveform.harmonics', message: '64 harmonics over 7000 points is over the limit of 1e8 for points × (2K+1)², the work of the fit; expected at most 59 harmonics for this trace, or fewer points', limit: 'fitWork' },
+    ]);
   });
 
   it('plain fields of the wrong type name the value and the type expected, in the same words everywhere', () => {
