@@ -196,7 +196,8 @@ describe('fit of a measured trace (waveform samples)', () => {
     expect(m, hint).not.toBeNull();
     // The crossing estimate averages 5 periods: within 0.5 % of the true beat here.
     expect(Number(m?.[1]) / f).toBeCloseTo(1, 2);
-    // At that frequency the residual is back near the noise σ √(1 − (2K+1)/n) (within 10 %: the estimate is not exact).
+    // At that frequency the residual is back near the noise σ √(1 − (2K+1)/n) (within 10 %: the estimate is not exact);
+    // E[RSS] = (n − p) σ² for a least-squares fit with p parameters (Gauss–Markov, any regression text).
     expect(Number(m?.[2]) / (sigma * Math.sqrt(1 - (2 * K + 1) / points))).toBeLessThan(1.1);
     // At the right frequency there is no such warning.
     expect(run({ organ: { ...organ, waveform: { samples, harmonics: K } }, output: { series: false } }).warnings.filter((w) => w.includes('residual RMS'))).toEqual([]);
