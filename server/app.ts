@@ -9,6 +9,7 @@ import fastifyStatic from '@fastify/static';
 import Fastify, { type FastifyError, type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import { VERSION } from '../src/version.js';
 import { nestingIssues } from '../src/scenario.js';
+import { AnswerCache, type AnswerCacheOptions } from './answers.js';
 import { registerCors } from './cors.js';
 import { SERVICE_LIMITS } from './limits.js';
 import { answerClientError, frameworkError, sendError } from './errors.js';
@@ -38,6 +39,11 @@ export interface AppOptions {
   webRoot?: string | null;
   /** The shipped scenarios (default: examples/ of the package). */
   examplesDir?: string;
+  /**
+   * The answer store of the compute routes (server/answers.ts): its sizes (defaults in
+   * SERVICE_LIMITS), or false for none.
+   */
+  answerCache?: Partial<AnswerCacheOptions> | false;
 }
 
 /** The package root: the nearest folder above this module with beatforce's package.json. */
@@ -88,6 +94,21 @@ export function buildApp(options: AppOptions = {}): FastifyInstance {
 
   // JSON only: a text/plain body is what a cross-origin page may send without a CORS preflight.
   app.removeContentTypeParser('text/plain');
+  // fastify's own JSON parser (prototype poisoning refused), with the body's text kept beside the
+  // parsed document: the answer store is keyed by it.
+  const parseJson = app.getDefaultJsonParser('error', 'error');
+  app.removeContentTypeParser('application/json');
+  app.decorateRequest('jsonText', null);
+  app.decorateRequest('answerKey', null);
+  app.addContentTypeParser('application/json', { parseAs: 'string' }, (request, text, done) => {
+    request.jsonText = text as string;
+    parseJson(request, text as string, done);
+  });
+  const cache =
+    options.answerCache === false
+      ? undefined
+      : new AnswerCache({ maxBytes: options.answerCache?.maxBytes ?? SERVICE_LIMITS.answerCacheBytes, maxEntryBytes: options.answerCache?.maxEntryBytes ?? SERVICE_LIMITS.answerCacheEntryBytes });
+  app.decorate('answerCache', cache ?? null);
 
   app.addHook('onRequest', (_request, reply, done) => {
     reply.header('x-beatforce-version', VERSION).header('x-content-type-options', 'nosniff');
@@ -129,7 +150,7 @@ export function buildApp(options: AppOptions = {}): FastifyInstance {
     sendError(reply, 'not_found', [{ path: 'url', message: `${JSON.stringify(path.slice(0, 200))} is not here; the API is under ${API_PREFIX}/ (see ${API_PREFIX}/openapi.json)` }]);
   });
 
-  for (const g of groups) app.register(routesPlugin(g.routes), { prefix: g.prefix });
+  for (const g of groups) app.register(routesPlugin(g.routes, cache), { prefix: g.prefix });
 
   const webRoot = options.webRoot === undefined ? join(packageRoot(), 'web') : options.webRoot;
   if (webRoot !== null && existsSync(webRoot)) {

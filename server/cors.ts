@@ -28,7 +28,7 @@ export function registerCors(app: FastifyInstance, origins: readonly string[]): 
     if (ok(origin)) {
       reply.header('access-control-allow-origin', any ? '*' : origin);
       if (!any) reply.header('vary', 'Origin');
-      reply.header('access-control-expose-headers', 'x-input-hash, x-beatforce-version');
+      reply.header('access-control-expose-headers', 'x-input-hash, x-beatforce-version, x-answer-cache');
     }
     done();
   });
@@ -41,7 +41,7 @@ export function registerCors(app: FastifyInstance, origins: readonly string[]): 
     reply
       .code(204)
       .header('access-control-allow-methods', 'GET, POST, OPTIONS')
-      .header('access-control-allow-headers', 'content-type, accept')
+      .header('access-control-allow-headers', 'content-type, accept, cache-control')
       .header('access-control-max-age', '600')
       .send();
   });

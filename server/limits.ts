@@ -11,4 +11,8 @@ export const SERVICE_LIMITS = {
   sweepTimeMs: 5_000,
   /** Time to receive a whole request (ms). */
   requestTimeoutMs: 30_000,
+  /** The answer store (server/answers.ts): all kept answers together (bytes); BEATFORCE_ANSWER_CACHE_MB. */
+  answerCacheBytes: 32 * 1024 * 1024,
+  /** The largest single answer kept (bytes). */
+  answerCacheEntryBytes: 1024 * 1024,
 } as const;

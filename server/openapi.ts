@@ -53,6 +53,19 @@ function parameters(where: 'query' | 'path', schema: z.ZodType | undefined, refs
 
 const refTo = (name: string): Json => ({ $ref: `#/components/schemas/${name}` });
 
+/** The request header and answer headers of a route whose answers are kept (server/answers.ts). */
+const CACHE_CONTROL: Json = {
+  name: 'Cache-Control',
+  in: 'header',
+  required: false,
+  description: 'no-cache: compute the answer afresh even if the same request was answered before (and keep it); no-store: compute it and do not keep it',
+  schema: { type: 'string' },
+};
+const KEPT_ANSWER_HEADERS: Json = {
+  'x-answer-cache': { description: 'hit: the bytes of an earlier answer to the very same request (URL, format, body text); miss: computed for this request', schema: { type: 'string', enum: ['hit', 'miss'] } },
+  'x-input-hash': { description: 'the inputHash of the answer (also in a JSON body)', schema: { type: 'string' } },
+};
+
 /** The whole document. */
 export function openApiDocument(groups: readonly RouteGroup[], opts: OpenApiOptions = {}): Json {
   const refs = opts.refs ?? new Map();
@@ -69,10 +82,10 @@ export function openApiDocument(groups: readonly RouteGroup[], opts: OpenApiOpti
         if (spec.ref) content['application/json'] = { schema: refTo(spec.ref) };
         else if (spec.schema) content['application/json'] = { schema: toSchema(spec.schema, 'output', refs) };
         if (spec.csv) content['text/csv'] = { schema: { type: 'string', description: 'a CSV table (RFC 4180) whose header row names units' } };
-        responses[status] = { description: spec.description, ...(Object.keys(content).length > 0 ? { content } : {}) };
+        responses[status] = { description: spec.description, ...(r.keepsAnswers && status === '200' ? { headers: KEPT_ANSWER_HEADERS } : {}), ...(Object.keys(content).length > 0 ? { content } : {}) };
       }
       for (const t of r.tags ?? []) tags.add(t);
-      const params = [...parameters('path', r.params, refs), ...parameters('query', r.query, refs)];
+      const params = [...parameters('path', r.params, refs), ...parameters('query', r.query, refs), ...(r.keepsAnswers ? [CACHE_CONTROL] : [])];
       paths[url] ??= {};
       (paths[url] as Record<string, Json>)[r.method.toLowerCase()] = {
         operationId: r.operationId,
@@ -91,7 +104,7 @@ export function openApiDocument(groups: readonly RouteGroup[], opts: OpenApiOpti
       title: 'beatforce',
       version: VERSION,
       description:
-        'Inertial loads on an oscillating mass carried by a turning body (haltere-like organs and vibratory rate gyros). Quantities are SI numbers or strings with units. Every answer carries `version` and `inputHash`; refusals share the `Error` shape. Numbers support research and design; they do not certify a navigation or safety sensor.',
+        'Inertial loads on an oscillating mass carried by a turning body (haltere-like organs and vibratory rate gyros). Quantities are SI numbers or strings with units. Every answer carries `version` and `inputHash`; refusals share the `Error` shape. A compute route answers a request it has answered before (same URL, format and body text) with the same bytes from its answer store, marked `x-answer-cache: hit`; `Cache-Control: no-cache` computes afresh. Numbers support research and design; they do not certify a navigation or safety sensor.',
       license: { name: 'MIT' },
     },
     servers: [{ url: '/' }],

@@ -9,7 +9,9 @@
  */
 import type { FastifyInstance, FastifyPluginAsync, FastifyReply, FastifyRequest } from 'fastify';
 import { z } from 'zod';
+import { answerFromStore, keepAnswer, type AnswerCache } from './answers.js';
 import { sendError, type ErrorCode, type ServiceIssue } from './errors.js';
+import { chooseFormat, type Format } from './format.js';
 
 export interface ResponseSpec {
   description: string;
@@ -38,6 +40,11 @@ export interface RouteSpec<Q = Record<string, never>, P = Record<string, never>>
   query?: z.ZodType<Q>;
   params?: z.ZodType<P>;
   responses: Record<number, ResponseSpec>;
+  /**
+   * The answer is a pure function of the URL, the format asked for and the body (the compute
+   * routes): repeated requests are answered from the answer store (server/answers.ts).
+   */
+  keepsAnswers?: boolean;
   handler: (request: FastifyRequest, reply: FastifyReply, ctx: RouteContext<Q, P>) => void;
 }
 
@@ -79,13 +86,15 @@ function parseOr<T>(schema: z.ZodType<T> | undefined, where: 'query' | 'params',
   return r.success ? { ok: true, value: r.data } : { ok: false, issues: inputIssues(where, r.error, input) };
 }
 
-/** Register routes as a fastify plugin. */
-export function routesPlugin(routes: readonly AnyRoute[]): FastifyPluginAsync {
+/** Register routes as a fastify plugin; `cache`, when given, keeps the answers of routes that allow it. */
+export function routesPlugin(routes: readonly AnyRoute[], cache?: AnswerCache): FastifyPluginAsync {
   return async (app: FastifyInstance) => {
     for (const spec of routes) {
+      const store = spec.keepsAnswers === true ? cache : undefined;
       app.route({
         method: spec.method,
         url: spec.url,
+        ...(store ? { onSend: keepAnswer(store) } : {}),
         handler(request, reply) {
           const q = parseOr(spec.query, 'query', request.query);
           if (!q.ok) {
@@ -97,6 +106,7 @@ export function routesPlugin(routes: readonly AnyRoute[]): FastifyPluginAsync {
             sendError(reply, 'invalid_request', p.issues);
             return;
           }
+          if (store && answerFromStore(store, request, reply, chooseFormat(q.value as { format?: Format }, request.headers.accept))) return;
           spec.handler(request, reply, { query: q.value, params: p.value });
         },
       });

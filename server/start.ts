@@ -1,6 +1,7 @@
 /**
  * `npm start`: serve the page and the API on 127.0.0.1:8080 (HOST and PORT override;
- * BEATFORCE_CORS_ORIGINS sets the CORS allow-list; BEATFORCE_LOG=1 logs every request).
+ * BEATFORCE_CORS_ORIGINS sets the CORS allow-list; BEATFORCE_ANSWER_CACHE_MB the answer store's
+ * size, 0 for none; BEATFORCE_LOG=1 logs every request).
  * Logs one line with the address; SIGINT or SIGTERM closes the server and exits.
  */
 import { scenarioParser } from '../src/scenario.js';
@@ -23,7 +24,14 @@ try {
   fail(`BEATFORCE_CORS_ORIGINS: ${(e as Error).message}`);
 }
 
-const app = buildApp({ corsOrigins, logger: process.env.BEATFORCE_LOG === '1' ? { level: 'info' } : false });
+const cacheText = process.env.BEATFORCE_ANSWER_CACHE_MB?.trim() ?? '';
+const cacheMb = cacheText === '' ? undefined : /^\d+(\.\d+)?$/.test(cacheText) && Number(cacheText) <= 65536 ? Number(cacheText) : fail(`BEATFORCE_ANSWER_CACHE_MB '${cacheText}' is not a size; expected megabytes from 0 (no answer store) to 65536`);
+
+const app = buildApp({
+  corsOrigins,
+  ...(cacheMb === undefined ? {} : { answerCache: cacheMb === 0 ? false : { maxBytes: Math.round(cacheMb * 1024 * 1024) } }),
+  logger: process.env.BEATFORCE_LOG === '1' ? { level: 'info' } : false,
+});
 // A service parses many documents: compile the scenario parser (about 60 ms) before the first request.
 scenarioParser();
 

@@ -93,6 +93,7 @@ export const forcesRoute = defineRoute({
     200: { description: 'the forces answer', schema: ForcesAnswerSchema, csv: true },
     ...errorResponses,
   },
+  keepsAnswers: true,
   handler(request, reply, { query }) {
     const hash = inputHash(request.body);
     const over = seriesOverLimit(request.body);

@@ -157,6 +157,7 @@ export const sensingRoute = defineRoute({
     200: { description: 'the sensing answer', schema: SensingAnswerSchema, csv: true },
     ...errorResponses,
   },
+  keepsAnswers: true,
   handler(request, reply, { query }) {
     const hash = inputHash(request.body);
     const r = sensing(request.body);

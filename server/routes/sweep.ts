@@ -38,6 +38,7 @@ export const sweepRoute = (opts: SweepRouteOptions) =>
       200: { description: 'the table', schema: SweepAnswerSchema, csv: true },
       ...errorResponses,
     },
+    keepsAnswers: true,
     handler(request, reply, { query }) {
       const hash = inputHash(request.body);
       const r = sweep(request.body, { sensing: opts.sensing, now: () => performance.now(), budgetMs: opts.budgetMs });

@@ -51,6 +51,7 @@ export const turnRoute = defineRoute({
     200: { description: 'the turn answer', schema: TurnAnswerSchema, csv: true },
     ...errorResponses,
   },
+  keepsAnswers: true,
   handler(request, reply, { query }) {
     const hash = inputHash(request.body);
     const r = turn(request.body);

@@ -505,7 +505,7 @@ describe('CORS', () => {
       const pre = await c.inject({ method: 'OPTIONS', url: '/api/v1/forces', headers: { origin: 'http://127.0.0.1:8888', 'access-control-request-method': 'POST' } });
       expect(pre.statusCode).toBe(204);
       expect(pre.headers['access-control-allow-methods']).toBe('GET, POST, OPTIONS');
-      expect(pre.headers['access-control-allow-headers']).toBe('content-type, accept');
+      expect(pre.headers['access-control-allow-headers']).toBe('content-type, accept, cache-control');
       const denied = await c.inject({ method: 'OPTIONS', url: '/api/v1/forces', headers: { origin: 'http://evil.example', 'access-control-request-method': 'POST' } });
       expect(denied.statusCode).toBe(403);
       expect(denied.json()).toEqual({

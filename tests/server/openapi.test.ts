@@ -176,9 +176,26 @@ describe('GET /api/v1/openapi.json', () => {
       const op = (doc.paths as Record<string, Record<string, Json>>)[`/api/v1/${route}`]?.post;
       expect((op?.requestBody as Json).content).toEqual({ 'application/json': { schema: { $ref: '#/components/schemas/Scenario' } } });
     }
-    expect(forces?.parameters).toEqual([
+    expect((forces?.parameters as Json[]).filter((p) => p.in === 'query')).toEqual([
       { name: 'format', in: 'query', required: false, description: 'json (default) or csv; overrides the Accept header', schema: { type: 'string', enum: ['json', 'csv'] } },
       { name: 'table', in: 'query', required: false, description: 'with CSV: the harmonic lines (default) or the load series', schema: { type: 'string', enum: ['harmonics', 'series'] } },
     ]);
+  });
+
+  it('documents the answer store on the compute routes and only there: Cache-Control in, x-answer-cache out', () => {
+    const paths = doc.paths as Record<string, Record<string, Json>>;
+    const marked: string[] = [];
+    for (const [url, ops] of Object.entries(paths)) {
+      for (const [method, op] of Object.entries(ops)) {
+        const header = ((op.parameters as Json[] | undefined) ?? []).find((p) => p.in === 'header');
+        const answerHeaders = (op.responses as Record<string, Json>)['200']?.headers as Record<string, Json> | undefined;
+        expect(header === undefined, `${method} ${url}`).toBe(answerHeaders === undefined);
+        if (header === undefined) continue;
+        marked.push(`${method} ${url}`);
+        expect(header.name).toBe('Cache-Control');
+        expect(answerHeaders?.['x-answer-cache']?.schema).toEqual({ type: 'string', enum: ['hit', 'miss'] });
+      }
+    }
+    expect(marked.sort()).toEqual(['post /api/v1/forces', 'post /api/v1/sensing', 'post /api/v1/sweep', 'post /api/v1/turn']);
   });
 });

@@ -5,7 +5,7 @@
 import { spawn } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { PKG_VERSION, ROOT } from './helpers.js';
+import { exampleText, PKG_VERSION, ROOT } from './helpers.js';
 
 const cwd = fileURLToPath(ROOT);
 
@@ -35,9 +35,10 @@ function start(env: Record<string, string>): Child {
 }
 
 describe('server/start.ts', () => {
-  for (const signal of ['SIGTERM', 'SIGINT'] as const) {
-    it(`listens on 127.0.0.1 by default, logs one line, serves, and closes on ${signal}`, async () => {
-      const c = start({ PORT: '0', HOST: '' });
+  // The SIGINT run also turns the answer store off (BEATFORCE_ANSWER_CACHE_MB=0).
+  for (const [signal, cacheMb, marks] of [['SIGTERM', '', ['miss', 'hit']], ['SIGINT', '0', [null, null]]] as const) {
+    it(`listens on 127.0.0.1 by default, logs one line, serves, and closes on ${signal}${cacheMb === '0' ? ' (no answer store)' : ''}`, async () => {
+      const c = start({ PORT: '0', HOST: '', BEATFORCE_ANSWER_CACHE_MB: cacheMb });
       const base = await c.address;
       expect(base).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/);
       const health = await fetch(`${base}/health`);
@@ -45,6 +46,13 @@ describe('server/start.ts', () => {
       const page = await fetch(`${base}/`);
       expect(page.status).toBe(200);
       expect(page.headers.get('content-type')).toBe('text/html; charset=utf-8');
+      const seen: (string | null)[] = [];
+      for (let i = 0; i < 2; i++) {
+        const r = await fetch(`${base}/api/v1/forces`, { method: 'POST', body: exampleText('mems-tuning-fork'), headers: { 'content-type': 'application/json' } });
+        expect(r.status).toBe(200);
+        seen.push(r.headers.get('x-answer-cache'));
+      }
+      expect(seen).toEqual(marks);
       c.kill(signal);
       const { code, stdout, stderr } = await c.exit;
       expect(code).toBe(0);
@@ -58,6 +66,13 @@ describe('server/start.ts', () => {
     const { code, stderr } = await c.exit;
     expect(code).toBe(1);
     expect(stderr).toBe("beatforce: PORT 'eighty' is not a port; expected a whole number from 0 to 65535\n");
+  });
+
+  it('refuses an answer store size that is not a size', async () => {
+    const c = start({ PORT: '0', BEATFORCE_ANSWER_CACHE_MB: '-5' });
+    const { code, stderr } = await c.exit;
+    expect(code).toBe(1);
+    expect(stderr).toBe("beatforce: BEATFORCE_ANSWER_CACHE_MB '-5' is not a size; expected megabytes from 0 (no answer store) to 65536\n");
   });
 
   it('refuses a CORS allow-list entry that is not an origin', async () => {
