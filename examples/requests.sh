@@ -2,7 +2,7 @@
 # One curl line per route of the beatforce service. Usage:
 #   bash examples/requests.sh [BASE_URL]      (default: $BEATFORCE_URL, then http://127.0.0.1:8080)
 # Start the service first with `npm start`. Each call prints a header line and the first lines
-# of the answer; the last call shows a refusal (HTTP 400 with the issues).
+# of the answer (for the repeated forces call, its headers); the last call shows a refusal (HTTP 400 with the issues).
 set -euo pipefail
 BASE="${1:-${BEATFORCE_URL:-http://127.0.0.1:8080}}"
 HERE="$(cd "$(dirname "$0")" && pwd)"
@@ -21,6 +21,9 @@ curl -fsS "$BASE/api/v1/examples/fly-tilted-stroke" -o "$OUT"; show "GET /api/v1
 curl -fsS "$BASE/api/v1/openapi.json" -o "$OUT"; show "GET /api/v1/openapi.json"
 
 curl -fsS -X POST "$BASE/api/v1/forces" -H 'content-type: application/json' --data-binary "@$HERE/fly-tilted-stroke.json" -o "$OUT"; show "POST /api/v1/forces"
+# The same request again: answered from the service's answer store (X-Answer-Cache: hit);
+# add -H 'cache-control: no-cache' to have it computed afresh.
+curl -fsS -X POST "$BASE/api/v1/forces" -H 'content-type: application/json' --data-binary "@$HERE/fly-tilted-stroke.json" -D - -o /dev/null | grep -i '^x-input-hash\|^x-answer-cache' > "$OUT"; show "POST /api/v1/forces again: its headers"
 curl -fsS -X POST "$BASE/api/v1/forces?format=csv" -H 'content-type: application/json' --data-binary "@$HERE/fly-tilted-stroke.json" -o "$OUT"; show "POST /api/v1/forces?format=csv"
 curl -fsS -X POST "$BASE/api/v1/sensing" -H 'content-type: application/json' -H 'accept: text/csv' --data-binary "@$HERE/fly-sensing.json" -o "$OUT"; show "POST /api/v1/sensing (Accept: text/csv)"
 curl -fsS -X POST "$BASE/api/v1/turn?format=csv" -H 'content-type: application/json' --data-binary "@$HERE/fly-saccade.json" -o "$OUT"; show "POST /api/v1/turn?format=csv"

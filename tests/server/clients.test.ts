@@ -91,13 +91,15 @@ describe('examples/requests.sh against a live server', () => {
     const titles = [...text.matchAll(/^== (.*)$/gm)].map((m) => m[1]);
     expect(titles).toEqual([
       'GET /health', 'GET /api/v1/examples', 'GET /api/v1/examples/fly-tilted-stroke', 'GET /api/v1/openapi.json',
-      'POST /api/v1/forces', 'POST /api/v1/forces?format=csv', 'POST /api/v1/sensing (Accept: text/csv)', 'POST /api/v1/turn?format=csv',
+      'POST /api/v1/forces', 'POST /api/v1/forces again: its headers', 'POST /api/v1/forces?format=csv', 'POST /api/v1/sensing (Accept: text/csv)', 'POST /api/v1/turn?format=csv',
       'POST /api/v1/sweep?format=csv', 'POST /api/v1/forces with an invalid scenario: HTTP 400',
     ]);
     const after = (title: string): string => text.split(`== ${title}\n`)[1]?.split('\n')[0] ?? '';
     expect(after('GET /health')).toBe(`{"status":"ok","version":"${PKG_VERSION}"}`);
     expect(after('GET /api/v1/openapi.json')).toMatch(/^\{"openapi":"3\.0\.3",/);
     expect(after('POST /api/v1/forces')).toMatch(/^\{"version":"[^"]+","inputHash":"[0-9a-f]{16}","path":"closed-form",/);
+    const repeated = text.split('== POST /api/v1/forces again: its headers\n')[1]?.split('\n\n')[0]?.toLowerCase().split('\n') ?? [];
+    expect(repeated).toEqual([expect.stringMatching(/^x-input-hash: [0-9a-f]{16}$/), 'x-answer-cache: hit']);
     expect(after('POST /api/v1/forces?format=csv')).toBe('side,role,component,axis,order,amplitude_N,phase_rad');
     expect(after('POST /api/v1/sensing (Accept: text/csv)')).toMatch(/^side,role,axis,channel_axis,order,frequency_Hz,/);
     expect(after('POST /api/v1/turn?format=csv')).toMatch(/^beat,time_s,true_roll_rad_s,/);
