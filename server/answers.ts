@@ -14,6 +14,7 @@
  * an answer larger than `maxEntryBytes` is sent and not kept. `buildApp({ answerCache: false })`
  * or BEATFORCE_ANSWER_CACHE_MB=0 turns it off.
  */
+import { createHash } from 'node:crypto';
 import type { FastifyReply, FastifyRequest } from 'fastify';
 
 export interface AnswerCacheOptions {
@@ -110,6 +111,20 @@ export function cacheDirectives(header: string | string[] | undefined): { fresh:
   return { fresh: noStore || noCache, keep: !noStore };
 }
 
+/*
+ * V8 hashes a string's characters only up to 16,383 of them; longer strings of one length share a
+ * hash, and a map of many would compare them in full on every lookup. A request longer than this
+ * (a measured trace) is keyed by the SHA-256 of its text instead (ordinary keys start with the
+ * format's name, never with '#').
+ */
+const LONGEST_PLAIN_KEY = 16_000;
+
+/** The store's key of a request: format, URL with query string, body text. */
+export function answerKey(format: string, url: string, text: string): string {
+  const key = `${format} ${url}\n${text}`;
+  return key.length <= LONGEST_PLAIN_KEY ? key : `#${createHash('sha256').update(key).digest('base64')}`;
+}
+
 /**
  * Before a cacheable route computes: answer from the store when it can (true), or mark the
  * request so that its answer is kept when it is sent (false: compute).
@@ -117,7 +132,7 @@ export function cacheDirectives(header: string | string[] | undefined): { fresh:
 export function answerFromStore(cache: AnswerCache, request: FastifyRequest, reply: FastifyReply, format: string): boolean {
   const text = request.jsonText;
   if (text === null) return false;
-  const key = `${format} ${request.url}\n${text}`;
+  const key = answerKey(format, request.url, text);
   const { fresh, keep } = cacheDirectives(request.headers['cache-control']);
   if (!fresh) {
     const hit = cache.get(key);

@@ -5,7 +5,7 @@
  */
 import type { FastifyInstance, LightMyRequestResponse } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AnswerCache, cacheDirectives } from '../../server/answers.js';
+import { AnswerCache, answerKey, cacheDirectives } from '../../server/answers.js';
 import { buildApp } from '../../server/app.js';
 import { example, exampleText, expectedHash, JSON_HEADERS } from './helpers.js';
 
@@ -159,6 +159,29 @@ describe('the service with its answer store', () => {
     const empty = await post(app, '/api/v1/sensing', '');
     expect(empty.statusCode).toBe(400);
     expect((empty.json() as { error: string }).error).toBe('invalid_json');
+  });
+
+  it('keys a long request by a digest of its text: equal lengths that differ only past 16,000 characters are told apart', async () => {
+    // A measured trace after 17,000 spaces (JSON allows them), twice, differing in the last digit
+    // of the description only (same length).
+    const doc = example('measured-stroke');
+    const long = (tag: string) => ' '.repeat(17_000) + JSON.stringify({ ...doc, description: `${String(doc.description)} ${tag}` });
+    const a = long('1'), b = long('2');
+    expect(a.length).toBeGreaterThan(16_000);
+    expect(b.length).toBe(a.length);
+    expect(answerKey('json', '/api/v1/forces', a)).toMatch(/^#[A-Za-z0-9+/]{43}=$/);
+    expect(answerKey('json', '/api/v1/forces', a)).not.toBe(answerKey('json', '/api/v1/forces', b));
+    expect(answerKey('csv', '/api/v1/forces', a)).not.toBe(answerKey('json', '/api/v1/forces', a));
+    expect(answerKey('json', '/api/v1/forces', '{}')).toBe('json /api/v1/forces\n{}');
+    const ra = await post(app, '/api/v1/forces', a);
+    const rb = await post(app, '/api/v1/forces', b);
+    const ra2 = await post(app, '/api/v1/forces', a);
+    expect([ra, rb, ra2].map((r) => r.statusCode)).toEqual([200, 200, 200]);
+    expect([ra.headers['x-answer-cache'], rb.headers['x-answer-cache'], ra2.headers['x-answer-cache']]).toEqual(['miss', 'miss', 'hit']);
+    expect(ra2.body).toBe(ra.body);
+    expect(ra2.headers['x-input-hash']).toBe(expectedHash(JSON.parse(a)));
+    expect(rb.headers['x-input-hash']).toBe(expectedHash(JSON.parse(b)));
+    expect(rb.headers['x-input-hash']).not.toBe(ra.headers['x-input-hash']);
   });
 
   it('marks only the compute routes', async () => {
