@@ -425,6 +425,8 @@ describe('the bench page in Chromium', () => {
     await tab.goto(url);
     await tab.waitForFunction(() => (window as unknown as { __bench?: { runs: number } }).__bench?.runs === 1);
     expect(await tab.evaluate('window.__bench.doc()')).toEqual(doc);
+    // The same document again: the service answers from its answer store, and the status says so.
+    expect(await tab.textContent('#status')).toMatch(/^answered: forces \d+ ms \(stored\) · sensing \d+ ms \(stored\)/);
     await tab.close();
     before = await runs();
     await page.fill('#f-body-rate-pitch', '0 deg/s');

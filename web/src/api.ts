@@ -2,7 +2,8 @@
 import type { Doc, Issue } from './types.js';
 
 export type Reply<T> =
-  | { ok: true; answer: T; ms: number }
+  /** kept: the service answered from its answer store (X-Answer-Cache: hit), not by computing. */
+  | { ok: true; answer: T; ms: number; kept: boolean }
   | { ok: false; status: number; error: string; issues: Issue[]; ms: number }
   | { ok: false; status: 0; error: 'aborted'; issues: []; ms: number };
 
@@ -17,7 +18,7 @@ async function read<T>(res: Response, t0: number): Promise<Reply<T>> {
     body = undefined;
   }
   const ms = performance.now() - t0; // the whole round trip: request, answer, parse
-  if (res.ok) return { ok: true, answer: body as T, ms };
+  if (res.ok) return { ok: true, answer: body as T, ms, kept: res.headers.get('x-answer-cache') === 'hit' };
   const b = (body ?? {}) as { error?: unknown; message?: unknown; issues?: unknown };
   const issues = Array.isArray(b.issues) ? (b.issues as Issue[]).filter((i) => i && typeof i.path === 'string') : [];
   const error = typeof b.error === 'string' ? b.error : typeof b.message === 'string' ? b.message : `HTTP ${res.status}`;

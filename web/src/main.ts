@@ -31,6 +31,8 @@ interface Bench {
   plots: typeof plotRecords;
   doc: () => Doc;
   timings: Record<string, number>;
+  /** Which of the timed answers the service took from its answer store. */
+  kept: Set<string>;
 }
 
 const FALLBACK: Doc = {
@@ -42,7 +44,7 @@ const DEFAULT_EXAMPLE = 'fly-tilted-stroke';
 const DEBOUNCE_MS = 250;
 
 const bench: Bench = {
-  version: __BEATFORCE_VERSION__, marks: { script: performance.now() }, runs: 0, idle: false, answers: {}, issues: [], plots: plotRecords, doc: () => editor.current, timings: {},
+  version: __BEATFORCE_VERSION__, marks: { script: performance.now() }, runs: 0, idle: false, answers: {}, issues: [], plots: plotRecords, doc: () => editor.current, timings: {}, kept: new Set(),
 };
 (window as unknown as { __bench: Bench }).__bench = bench;
 
@@ -226,6 +228,7 @@ async function run(): Promise<void> {
   inflight = ctl;
   const doc = editor.current;
   bench.timings = {};
+  bench.kept = new Set();
   setBusy(true, 'computing…');
   saveLocal(doc);
   void writeHash(doc, { axis: ui.axis.value, organ: ui.organ.value });
@@ -234,6 +237,7 @@ async function run(): Promise<void> {
   if (bench.firstRenderMs === undefined) bench.marks.forcesAnswered = performance.now();
   if (id !== runId) return;
   bench.timings.forces = f.ms;
+  if (f.ok && f.kept) bench.kept.add('forces');
   if (!f.ok) return finishWithIssues(f, doc);
   bench.answers.forces = f.answer;
   editor.clearIssues();
@@ -258,6 +262,7 @@ async function run(): Promise<void> {
   refused(sensing, 'sensing');
   refused(turn, 'turn');
   bench.timings.sensing = sensing.ms;
+  if (sensing.ok && sensing.kept) bench.kept.add('sensing');
   bench.answers.sensing = sensing.ok ? sensing.answer : undefined;
 
   const sweeps: Partial<Record<BodyAxis, SweepAnswer>> = {};
@@ -268,6 +273,7 @@ async function run(): Promise<void> {
     const replies = await Promise.all(BODY_AXES.map((ax) => (requests[ax] ? post<SweepAnswer>('sweep', requests[ax], ctl.signal) : Promise.resolve(undefined))));
     if (id !== runId) return;
     bench.timings.sweeps = performance.now() - t;
+    if (replies.some((r) => r?.ok) && replies.every((r) => !r || (r.ok && r.kept))) bench.kept.add('sweeps');
     BODY_AXES.forEach((ax, i) => {
       const r = replies[i];
       if (r?.ok) sweeps[ax] = r.answer;
@@ -281,6 +287,7 @@ async function run(): Promise<void> {
   if (!turn) drawTurn(ui.turn, ui.turnNote, undefined, ui.axis.value);
   else {
     bench.timings.turn = turn.ms;
+    if (turn.ok && turn.kept) bench.kept.add('turn');
     drawTurn(ui.turn, ui.turnNote, turn.ok ? turn.answer : undefined, ui.axis.value, turn.ok ? undefined : describe(turn));
   }
   drawSummary();
@@ -311,7 +318,7 @@ function done(): void {
   bench.runs++;
   bench.idle = true;
   const t = bench.timings;
-  setBusy(false, `answered: ${Object.entries(t).map(([k, v]) => `${k} ${Math.round(v)} ms`).join(' · ')}`);
+  setBusy(false, `answered: ${Object.entries(t).map(([k, v]) => `${k} ${Math.round(v)} ms${bench.kept.has(k) ? ' (stored)' : ''}`).join(' · ')}`);
 }
 
 // ---- examples, start-up -----------------------------------------------------------------------
