@@ -4,7 +4,7 @@
  */
 import { spawn } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it } from 'vitest';
 import { exampleText, PKG_VERSION, ROOT } from './helpers.js';
 
 const cwd = fileURLToPath(ROOT);
@@ -14,6 +14,13 @@ interface Child {
   exit: Promise<{ code: number | null; stdout: string; stderr: string }>;
   kill: (signal: NodeJS.Signals) => void;
 }
+
+/** Servers started by a test, so that one whose test failed before stopping it is not left running. */
+const running = new Set<ReturnType<typeof spawn>>();
+afterEach(() => {
+  for (const child of running) child.kill('SIGKILL');
+  running.clear();
+});
 
 function start(env: Record<string, string>): Child {
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/start.ts'], { cwd, env: { ...process.env, BEATFORCE_CORS_ORIGINS: '', ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -30,7 +37,13 @@ function start(env: Record<string, string>): Child {
   child.stderr.on('data', (d: Buffer) => {
     stderr += d.toString();
   });
-  const exit = new Promise<{ code: number | null; stdout: string; stderr: string }>((resolve) => child.on('exit', (code) => resolve({ code, stdout, stderr })));
+  running.add(child);
+  const exit = new Promise<{ code: number | null; stdout: string; stderr: string }>((resolve) =>
+    child.on('exit', (code) => {
+      running.delete(child);
+      resolve({ code, stdout, stderr });
+    }),
+  );
   return { address, exit, kill: (s) => child.kill(s) };
 }
 
