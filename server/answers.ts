@@ -100,6 +100,10 @@ declare module 'fastify' {
     /** Where this request's answer is to be kept (null: not kept). */
     answerKey: string | null;
   }
+  interface FastifyInstance {
+    /** The service's answer store, or null when it is off. */
+    answerCache: AnswerCache | null;
+  }
 }
 
 /** Request `Cache-Control` directives that concern the store. */
@@ -157,11 +161,4 @@ export function keepAnswer(cache: AnswerCache) {
     }
     done(null, payload);
   };
-}
-
-declare module 'fastify' {
-  interface FastifyInstance {
-    /** The service's answer store, or null when it is off. */
-    answerCache: AnswerCache | null;
-  }
 }
